@@ -1,0 +1,44 @@
+/**
+ * Errors with a stable code. The code is what scripts and tests match on; the message names the field, the
+ * value received and what was expected. `exitCodeFor` maps every error to the process exit code the CLI uses.
+ */
+
+/** Stable error codes. `input/*` errors are the user's to fix (exit 2); the rest are failures (exit 1). */
+export type ErrorCode =
+  | 'input/invalid-parameter'
+  | 'input/unknown-parameter'
+  | 'input/invalid-flag'
+  | 'internal/unexpected';
+
+export class DisksweepError extends Error {
+  override readonly name = 'DisksweepError';
+  readonly code: ErrorCode;
+  /** One line per offending field, e.g. `alpha_active: must be in (0, 1] (got 2)`. */
+  readonly details: readonly string[];
+
+  constructor(code: ErrorCode, message: string, options: { details?: readonly string[]; cause?: unknown } = {}) {
+    super(message, options.cause === undefined ? undefined : { cause: options.cause });
+    this.code = code;
+    this.details = options.details ?? [];
+  }
+}
+
+/** Exit codes scripts can rely on: 0 success, 1 failure while running, 2 bad input (nothing was run). */
+export const EXIT_OK = 0;
+export const EXIT_FAILURE = 1;
+export const EXIT_BAD_INPUT = 2;
+
+export function exitCodeFor(error: unknown): number {
+  if (error instanceof DisksweepError && error.code.startsWith('input/')) return EXIT_BAD_INPUT;
+  return EXIT_FAILURE;
+}
+
+/** The one place that turns an error into the text a person reads. */
+export function describeError(error: unknown): string {
+  if (error instanceof DisksweepError) {
+    const lines = [`error [${error.code}]: ${error.message}`, ...error.details.map((d) => `  - ${d}`)];
+    return lines.join('\n');
+  }
+  if (error instanceof Error) return `error: ${error.message}`;
+  return `error: ${String(error)}`;
+}

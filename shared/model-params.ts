@@ -1,0 +1,398 @@
+/**
+ * The one schema of model parameters. `disksweep model --set`, `disksweep model --list`, sweep specs and the
+ * store all read parameter names, units, defaults and ranges from the descriptor table below; the zod schema
+ * is generated from it, so documentation and validation cannot drift apart.
+ *
+ * User-facing units are in every name. Conversion to cgs happens once, in `worker/model-setup.ts`, which also
+ * checks the constraints that need a derived physical quantity (the final centrifugal radius of infall).
+ */
+import { z } from 'zod';
+import { DisksweepError } from './errors.js';
+import { AU_CGS, R_SUN_CGS } from './constants.js';
+
+interface ParamBase {
+  /** What the parameter means, in one or two sentences a researcher can act on. */
+  readonly description: string;
+  /** Where its default comes from (a paper, common practice, or "demo choice"). */
+  readonly source?: string;
+}
+
+export interface NumberParam extends ParamBase {
+  readonly kind: 'number';
+  readonly unit: string;
+  readonly default: number;
+  readonly min: number;
+  readonly max: number;
+  readonly minExclusive?: boolean;
+  readonly maxExclusive?: boolean;
+  readonly integer?: boolean;
+  /** True when sweeps should sample this parameter logarithmically by default. */
+  readonly logScale?: boolean;
+}
+
+export interface ChoiceParam extends ParamBase {
+  readonly kind: 'choice';
+  readonly choices: readonly string[];
+  readonly default: string;
+}
+
+export interface ListParam extends ParamBase {
+  readonly kind: 'list';
+  readonly unit: string;
+  readonly default: readonly number[];
+  readonly min: number;
+  readonly max: number;
+}
+
+export type ParamDescriptor = NumberParam | ChoiceParam | ListParam;
+
+const num = (p: Omit<NumberParam, 'kind'>): NumberParam => ({ kind: 'number', ...p });
+const choice = (p: Omit<ChoiceParam, 'kind'>): ChoiceParam => ({ kind: 'choice', ...p });
+
+/** Every model parameter, in the order `--list` prints them. */
+export const PARAMS = {
+  initial_state: choice({
+    choices: ['infall', 'disk'],
+    default: 'infall',
+    description:
+      'How a model starts: "infall" = a seed star inside a collapsing cloud core (t = 0 is collapse onset); ' +
+      '"disk" = a star with a ready-made Lynden-Bell & Pringle disk.',
+  }),
+  m_seed_msun: num({
+    unit: 'M_sun', default: 0.01, min: 1e-4, max: 1, logScale: true,
+    description: 'initial_state=infall: mass of the seed protostar at collapse onset.',
+    source: 'demo choice; a first hydrostatic core is of order 0.01 M_sun',
+  }),
+  m_core_msun: num({
+    unit: 'M_sun', default: 1, min: 0.01, max: 100, logScale: true,
+    description: 'initial_state=infall: mass of the collapsing cloud core; infall stops when it is used up.',
+  }),
+  t_core_k: num({
+    unit: 'K', default: 10, min: 5, max: 100,
+    description: 'initial_state=infall: isothermal core temperature; sets the Shu (1977) rate 0.975 c_s^3/G.',
+    source: 'common practice: dense cores are at about 10 K',
+  }),
+  omega_core_s: num({
+    unit: 's^-1', default: 1e-14, min: 0, max: 1e-12,
+    description:
+      'initial_state=infall: solid-body rotation rate of the core; sets the centrifugal radius ' +
+      'r_c = m0^3 c_s t^3 Omega^2 / 16 (Terebey, Shu & Cassen 1984).',
+    source: 'common practice: observed cores rotate at 1e-14 to 1e-13 s^-1',
+  }),
+  m_star_msun: num({
+    unit: 'M_sun', default: 1, min: 0.01, max: 10, logScale: true,
+    description: 'initial_state=disk: initial stellar mass.',
+  }),
+  m_disk_msun: num({
+    unit: 'M_sun', default: 0.05, min: 1e-8, max: 10, logScale: true,
+    description: 'initial_state=disk: initial disk mass.',
+  }),
+  r1_au: num({
+    unit: 'AU', default: 30, min: 0.1, max: 1e4, logScale: true,
+    description: 'initial_state=disk: characteristic radius R1 of the Lynden-Bell & Pringle (1974) profile.',
+  }),
+  gamma_lbp: num({
+    unit: '1', default: 1, min: 0, max: 2, maxExclusive: true,
+    description: 'initial_state=disk: viscosity power-law index gamma of the profile, Sigma ~ R^-gamma exp(-(R/R1)^(2-gamma)).',
+  }),
+  r_in_au: num({
+    unit: 'AU', default: 0.05, min: 1e-3, max: 10, logScale: true,
+    description: 'Inner edge of the grid (zero-torque boundary); gas crossing it is accreted by the star.',
+  }),
+  r_out_au: num({
+    unit: 'AU', default: 1000, min: 1, max: 1e6, logScale: true,
+    description: 'Outer edge of the grid (zero torque); gas leaving it is booked as lost. Keep it far out.',
+  }),
+  n_cells: num({
+    unit: '1', default: 200, min: 16, max: 20000, integer: true,
+    description: 'Number of logarithmically spaced cells between r_in_au and r_out_au.',
+  }),
+  alpha_active: num({
+    unit: '1', default: 0.01, min: 0, max: 1, minExclusive: true, logScale: true,
+    description: 'Shakura-Sunyaev alpha where the gas is MRI-active.',
+  }),
+  alpha_dead: num({
+    unit: '1', default: 1e-4, min: 0, max: 1,
+    description: 'Residual alpha in the dead (MRI-inactive) part of the column; must not exceed alpha_active.',
+  }),
+  active_layer: choice({
+    choices: ['uniform', 'fixed_column'],
+    default: 'uniform',
+    description:
+      'Which MRI-active column Sigma_a the transport uses: "uniform" = the whole column is active; ' +
+      '"fixed_column" = an active layer of sigma_active_face_g_cm2 on each face (Gammie 1996).',
+  }),
+  sigma_active_face_g_cm2: num({
+    unit: 'g cm^-2', default: 100, min: 0, max: 1e5,
+    description: 'active_layer=fixed_column: active column per face; Sigma_a = 2x this.',
+    source: 'Gammie 1996 used about 100 g cm^-2 (cosmic-ray penetration depth)',
+  }),
+  gi_transport: choice({
+    choices: ['on', 'off'],
+    default: 'on',
+    description: 'Gravitational-instability transport where Toomre Q < q_crit.',
+  }),
+  q_crit: num({
+    unit: '1', default: 2, min: 1, max: 10,
+    description:
+      'Toomre Q below which alpha_GI = 0.01 [(q_crit/Q)^2 - 1] is added (Lin & Pringle 1987 form with the ' +
+      'normalisation of Armitage, Livio & Pringle 2001; from memory).',
+  }),
+  alpha_gi_max: num({
+    unit: '1', default: 0.1, min: 0, max: 1,
+    description: 'Cap on the gravitational-instability alpha.',
+    source: 'common practice: local GI saturates near alpha ~ 0.1 (Gammie 2001 fragmentation boundary)',
+  }),
+  kappa_cm2_g: num({
+    unit: 'cm^2 g^-1', default: 1, min: 0, max: 1e4,
+    description: 'Constant Rosseland-mean opacity for viscous heating; 0 switches viscous heating off.',
+    source: 'common practice: dusty gas below ~150 K has kappa of order 1 cm^2/g',
+  }),
+  t_floor_k: num({
+    unit: 'K', default: 10, min: 0, max: 1000,
+    description: 'Temperature floor (ambient cloud radiation) added in T^4.',
+  }),
+  l_star_lsun: num({
+    unit: 'L_sun', default: 1, min: 0, max: 1e4,
+    description: 'Stellar luminosity for irradiation, T_irr = 280 K (R/AU)^-1/2 (L/L_sun)^1/4 (Hayashi 1981).',
+  }),
+  star_mass: choice({
+    choices: ['growing', 'fixed'],
+    default: 'growing',
+    description: 'Whether accretion adds to the stellar mass (and so to Omega and j everywhere) or M_* is held fixed.',
+  }),
+  k2_star: num({
+    unit: '1', default: 0.205, min: 0.01, max: 0.4,
+    description: 'Stellar gyration constant k^2 in J_spin = k^2 M R^2 Omega; 0.205 is an n = 1.5 polytrope.',
+    source: 'n = 1.5 polytrope (Motz 1952; from memory)',
+  }),
+  r_star_rsun: num({
+    unit: 'R_sun', default: 2, min: 0.1, max: 20,
+    description: 'Stellar radius for the spin angular momentum.',
+    source: 'common practice: T Tauri stars have R of about 2 R_sun',
+  }),
+  p_star_days: num({
+    unit: 'd', default: 8, min: 0.1, max: 1000,
+    description: 'Disk-locked rotation period of the star (capped at breakup).',
+    source: 'common practice: young accreting stars rotate in about a week (disk locking)',
+  }),
+  t_end_myr: num({
+    unit: 'Myr', default: 5, min: 0, max: 100, minExclusive: true,
+    description: 'End of the run, counted from collapse onset (or from the given disk).',
+  }),
+  checkpoints_myr: {
+    kind: 'list', unit: 'Myr', default: [0.1, 0.3, 0.5, 1, 2, 3, 5], min: 0, max: 100,
+    description: 'Times at which the full set of outputs is recorded; those after t_end_myr are dropped.',
+  } satisfies ListParam,
+  f_mass_star: num({
+    unit: '1', default: 0.99, min: 0, max: 1, minExclusive: true,
+    description: 'Solar-like split: the star must hold at least this share of the mass.',
+    source: 'the Sun holds about 99.86 % of the solar system mass',
+  }),
+  f_j_disk_max: num({
+    unit: '1', default: 0.02, min: 0, max: 1, minExclusive: true,
+    description: 'Solar-like split: the star spin may hold at most this share of the angular momentum.',
+    source: 'the Sun spin holds about 0.6 % of the solar system angular momentum',
+  }),
+  theta: num({
+    unit: '1', default: 1, min: 0.5, max: 1,
+    description: 'Implicitness of the time step: 1 = backward Euler (robust), 0.5 = Crank-Nicolson (2nd order).',
+  }),
+  picard_iterations: num({
+    unit: '1', default: 0, min: 0, max: 20, integer: true,
+    description: 'Extra solves per step with nu recomputed from the new Sigma (0 = nu lagged one step).',
+  }),
+  step_change: num({
+    unit: '1', default: 0.05, min: 1e-4, max: 1,
+    description: 'Target for max |dSigma| / (Sigma + 1e-6 Sigma_max) per step; smaller is more accurate.',
+  }),
+  max_steps: num({
+    unit: '1', default: 200000, min: 10, max: 1e8, integer: true,
+    description: 'Step cap; a run that needs more ends with status step_limit.',
+  }),
+  n_series: num({
+    unit: '1', default: 50, min: 2, max: 2000, integer: true,
+    description: 'Samples of the compact time series (evenly spaced in time up to t_end_myr).',
+  }),
+} as const satisfies Record<string, ParamDescriptor>;
+
+export type ParamName = keyof typeof PARAMS;
+export const PARAM_NAMES = Object.keys(PARAMS) as ParamName[];
+
+function rangeText(p: NumberParam | ListParam): string {
+  const lo = 'minExclusive' in p && p.minExclusive ? '(' : '[';
+  const hi = 'maxExclusive' in p && p.maxExclusive ? ')' : ']';
+  return `${lo}${p.min}, ${p.max}${hi}`;
+}
+
+/** Human-readable allowed values, used by `--list` and by every range error. */
+export function allowedText(p: ParamDescriptor): string {
+  if (p.kind === 'choice') return `one of ${p.choices.map((c) => `"${c}"`).join(', ')}`;
+  const unit = p.unit === '1' ? '' : ` ${p.unit}`;
+  const integer = p.kind === 'number' && p.integer ? 'an integer in ' : '';
+  const list = p.kind === 'list' ? 'a list of values in ' : '';
+  return `${list}${integer}${rangeText(p)}${unit}`;
+}
+
+function inRange(p: NumberParam | ListParam, v: number): boolean {
+  const minOk = 'minExclusive' in p && p.minExclusive ? v > p.min : v >= p.min;
+  const maxOk = 'maxExclusive' in p && p.maxExclusive ? v < p.max : v <= p.max;
+  return Number.isFinite(v) && minOk && maxOk;
+}
+
+function numberSchema(p: NumberParam) {
+  return z
+    .number({ error: (iss) => `expected a number, ${allowedText(p)} (got ${JSON.stringify(iss.input)})` })
+    .superRefine((v, ctx) => {
+      if (!inRange(p, v) || (p.integer === true && !Number.isInteger(v))) {
+        ctx.addIssue({ code: 'custom', message: `must be ${allowedText(p)} (got ${v})` });
+      }
+    })
+    .default(p.default);
+}
+
+function listSchema(p: ListParam) {
+  return z
+    .array(z.number(), { error: (iss) => `expected a list of numbers (got ${JSON.stringify(iss.input)})` })
+    .min(1, { error: 'must hold at least one value' })
+    .superRefine((values, ctx) => {
+      values.forEach((v, i) => {
+        if (!inRange(p, v)) ctx.addIssue({ code: 'custom', path: [i], message: `must be ${allowedText(p)} (got ${v})` });
+        if (i > 0 && v <= values[i - 1]) {
+          ctx.addIssue({ code: 'custom', path: [i], message: `must increase strictly (got ${values[i - 1]} then ${v})` });
+        }
+      });
+    })
+    .default([...p.default]);
+}
+
+function choiceSchema(p: ChoiceParam) {
+  const [first, ...rest] = p.choices;
+  return z
+    .enum([first, ...rest] as [string, ...string[]], {
+      error: (iss) => `must be ${allowedText(p)} (got ${JSON.stringify(iss.input)})`,
+    })
+    .default(p.default);
+}
+
+type SchemaFor<P> = P extends NumberParam
+  ? ReturnType<typeof numberSchema>
+  : P extends ListParam
+    ? ReturnType<typeof listSchema>
+    : ReturnType<typeof choiceSchema>;
+
+function schemaFor<P extends ParamDescriptor>(p: P): SchemaFor<P> {
+  switch (p.kind) {
+    case 'number':
+      return numberSchema(p) as SchemaFor<P>;
+    case 'list':
+      return listSchema(p) as SchemaFor<P>;
+    case 'choice':
+      return choiceSchema(p) as SchemaFor<P>;
+  }
+}
+
+const shape = Object.fromEntries(PARAM_NAMES.map((name) => [name, schemaFor(PARAMS[name])])) as {
+  [K in ParamName]: SchemaFor<(typeof PARAMS)[K]>;
+};
+
+/** Parameters after defaults are filled in; user-facing units. */
+export type ModelParams = {
+  [K in ParamName]: (typeof PARAMS)[K] extends ChoiceParam
+    ? (typeof PARAMS)[K]['choices'][number]
+    : (typeof PARAMS)[K] extends ListParam
+      ? number[]
+      : number;
+};
+
+/** Cross-parameter rules; each message names the parameters involved and their values. */
+function checkConsistency(p: z.infer<z.ZodObject<typeof shape>>, ctx: z.RefinementCtx): void {
+  if (p.alpha_dead > p.alpha_active) {
+    ctx.addIssue({
+      code: 'custom', path: ['alpha_dead'],
+      message: `must not exceed alpha_active = ${p.alpha_active} (got ${p.alpha_dead})`,
+    });
+  }
+  if (p.r_out_au < 10 * p.r_in_au) {
+    ctx.addIssue({
+      code: 'custom', path: ['r_out_au'],
+      message: `must be at least 10 x r_in_au = ${10 * p.r_in_au} AU (got ${p.r_out_au})`,
+    });
+  }
+  // The star must fit inside the inner edge, or the accreted specific angular momentum (G M R_in)^1/2 is
+  // smaller than the star's own surface value and the spin bookkeeping stops making sense.
+  const rStarAu = (p.r_star_rsun * R_SUN_CGS) / AU_CGS;
+  if (rStarAu >= p.r_in_au) {
+    ctx.addIssue({
+      code: 'custom', path: ['r_star_rsun'],
+      message: `star (${rStarAu.toPrecision(3)} AU) must lie inside r_in_au = ${p.r_in_au} AU (got ${p.r_star_rsun} R_sun)`,
+    });
+  }
+  if (p.initial_state === 'disk' && (p.r1_au <= p.r_in_au || p.r1_au >= p.r_out_au / 10)) {
+    ctx.addIssue({
+      code: 'custom', path: ['r1_au'],
+      message: `must lie between r_in_au = ${p.r_in_au} and r_out_au/10 = ${p.r_out_au / 10} AU (got ${p.r1_au})`,
+    });
+  }
+}
+
+export const modelParamsSchema = z
+  .object(shape)
+  .strict()
+  .superRefine(checkConsistency)
+  .transform((p) => ({ ...p, checkpoints_myr: p.checkpoints_myr.filter((t) => t <= p.t_end_myr) }));
+
+/** Turn zod issues into one line per field: `alpha_active: must be ... (got 2)`. */
+export function issuesToDetails(error: z.ZodError, prefix = ''): string[] {
+  return error.issues.map((iss) => {
+    if (iss.code === 'unrecognized_keys') {
+      return iss.keys.map((k) => `${prefix}${k}: unknown parameter${suggestionFor(k)}`).join('\n');
+    }
+    const path = iss.path.map((seg) => (typeof seg === 'number' ? `[${seg}]` : String(seg))).join('.');
+    return `${prefix}${path.replace(/\.\[/g, '[')}: ${iss.message}`;
+  });
+}
+
+/** Nearest parameter name by edit distance, for "did you mean" hints. */
+export function suggestionFor(name: string): string {
+  let best = '';
+  let bestD = Infinity;
+  for (const candidate of PARAM_NAMES) {
+    const d = editDistance(name, candidate);
+    if (d < bestD) [best, bestD] = [candidate, d];
+  }
+  return bestD <= Math.max(2, Math.floor(name.length / 3)) ? ` (did you mean ${best}?)` : '';
+}
+
+function editDistance(a: string, b: string): number {
+  const row = Array.from({ length: b.length + 1 }, (_, j) => j);
+  for (let i = 1; i <= a.length; i++) {
+    let prev = row[0];
+    row[0] = i;
+    for (let j = 1; j <= b.length; j++) {
+      const tmp = row[j];
+      row[j] = Math.min(row[j] + 1, row[j - 1] + 1, prev + (a[i - 1] === b[j - 1] ? 0 : 1));
+      prev = tmp;
+    }
+  }
+  return row[b.length];
+}
+
+/** Validate raw parameters (unknown input from a file, a flag or a queue) and fill in defaults. */
+export function parseModelParams(raw: unknown): ModelParams {
+  const result = modelParamsSchema.safeParse(raw);
+  if (!result.success) {
+    const details = issuesToDetails(result.error).flatMap((d) => d.split('\n'));
+    const unknown = details.some((d) => d.includes('unknown parameter'));
+    throw new DisksweepError(
+      unknown ? 'input/unknown-parameter' : 'input/invalid-parameter',
+      `invalid model parameters (${details.length} problem${details.length === 1 ? '' : 's'}); ` +
+        'run `disksweep model --list` for names, units and ranges',
+      { details },
+    );
+  }
+  return result.data as ModelParams;
+}
+
+/** Every parameter at its default. */
+export const DEFAULT_PARAMS: ModelParams = parseModelParams({});

@@ -1,0 +1,311 @@
+/**
+ * The time integrator of one disk model: adaptive implicit steps of viscous transport with infall as a
+ * source, a growing (or fixed) star, and exact mass and angular-momentum bookkeeping. It lands exactly on
+ * every requested event time and hands the state to an observer there; it owns no outputs itself.
+ *
+ * Step control: without sources the change measure is max_i |ΔΣ_i| / (Σ_i + 10^-6 Σ_max). With infall adding
+ * a_i = dt S_i/A_i to a cell, the measure is min(|ΔΣ_i|, |ΔΣ_i − a_i|) / (Σ_i + a_i + 10^-6 Σ_max): the net change
+ * (small where transport carries the new gas on in a quasi-steady state) or the part transport made (small where
+ * a cell is simply filling up), whichever is smaller, relative to the gas that was there or arrived. The
+ * deposit itself is exact, so it needs no step control; the plain measure would call every cell that infall
+ * reaches for the first time an infinite change. Steps grow by at most 2x, shrink toward the target, and are
+ * redone when they overshoot it 4x. No division by Σ anywhere.
+ */
+import { G_CGS, MYR_CGS } from '../../../shared/constants.js';
+import type { ModelStatus } from '../../../shared/model-result.js';
+import { diskAngularMomentum, diskMass } from './disk-diagnostics.js';
+import type { DiskGrid } from './grid.js';
+import { centrifugalRadius, depositInfall } from './infall.js';
+import { spinAngularMomentum } from './stellar-spin.js';
+import type { TransportPhysics, TransportSummary } from './transport-coefficients.js';
+import { computeTransportCoefficients } from './transport-coefficients.js';
+import type { EdgeCondition } from './viscous-transport.js';
+import { makeTransportWorkspace, viscousStep } from './viscous-transport.js';
+
+export interface InfallSetup {
+  /** Shu rate, g s^-1. */
+  readonly mdot: number;
+  /** Isothermal sound speed of the core, cm s^-1. */
+  readonly soundSpeed: number;
+  /** Core rotation rate, s^-1. */
+  readonly omegaCore: number;
+  /** Time the core is used up, s. */
+  readonly tEnd: number;
+}
+
+export interface SpinSetup {
+  readonly k2: number;
+  /** Stellar radius, cm. */
+  readonly rStar: number;
+  /** Rotation period, s. */
+  readonly period: number;
+}
+
+/** Prescribed inward mass flows through the grid edges (g s^-1) as functions of time: validation runs only. */
+export interface ValidationEdges {
+  readonly inner: (t: number) => number;
+  readonly outer: (t: number) => number;
+}
+
+export interface EvolveSetup {
+  readonly grid: DiskGrid;
+  /** Initial surface density, g cm^-2 (copied, not modified). */
+  readonly sigma0: Float64Array;
+  /** Initial stellar mass, g. */
+  readonly mStar0: number;
+  readonly starGrows: boolean;
+  readonly transport: TransportPhysics;
+  readonly theta: number;
+  readonly picardIterations: number;
+  readonly stepChange: number;
+  readonly maxSteps: number;
+  /** End time, s. */
+  readonly tEnd: number;
+  /** Times (s) to stop exactly on and report; tEnd and the end of infall are added. */
+  readonly eventTimes: readonly number[];
+  readonly infall: InfallSetup | null;
+  readonly spin: SpinSetup;
+  /** First step, s. */
+  readonly initialDt: number;
+  readonly validationEdges?: ValidationEdges;
+}
+
+/** Running totals since t = 0, cgs (g, g cm^2 s^-1). */
+export interface Budget {
+  massAccreted: number;
+  massLost: number;
+  massInfallDisk: number;
+  massInfallStar: number;
+  jAccreted: number;
+  jLost: number;
+  jInfallDisk: number;
+  jInfallStar: number;
+  /** Change of J_disk from the growth of M_* at fixed cell masses (every j_i ∝ M_*^{1/2}). */
+  jRescale: number;
+}
+
+/** The state an observer sees; valid only during the callback (arrays are reused). */
+export interface DiskState {
+  t: number;
+  steps: number;
+  rejectedSteps: number;
+  readonly sigma: Float64Array;
+  readonly temperature: Float64Array;
+  readonly nu: Float64Array;
+  mStar: number;
+  mDisk: number;
+  jDisk: number;
+  jSpin: number;
+  /** Accretion rate onto the star over the last step (disk + infall inside R_in), g s^-1. */
+  mdotStar: number;
+  /** Toomre Q minimum and fragmentation flag from the last coefficient pass. */
+  transport: TransportSummary;
+  readonly mDisk0: number;
+  readonly jDisk0: number;
+  readonly jSpin0: number;
+  readonly budget: Budget;
+}
+
+export interface EvolveObserver {
+  /** After every accepted step. */
+  onStep?(state: DiskState): void;
+  /** When t lands on an event time (state.t equals it exactly). */
+  onEvent?(state: DiskState): void;
+}
+
+export interface EvolveOutcome {
+  status: ModelStatus;
+  reason: string | null;
+  state: DiskState;
+}
+
+/** Angular momentum the star has received but not kept: torques and winds removed it. */
+export function angularMomentumRemoved(state: DiskState): number {
+  const b = state.budget;
+  return state.jSpin0 + b.jAccreted + b.jInfallStar - state.jSpin;
+}
+
+/** Relative closure errors of the mass and angular-momentum budgets of the disk. */
+export function budgetErrors(state: DiskState): { mass: number; angularMomentum: number } {
+  const b = state.budget;
+  const massIn = state.mDisk0 + b.massInfallDisk;
+  const massErr = state.mDisk - (massIn - b.massAccreted - b.massLost);
+  const jScale = state.jDisk0 + b.jInfallDisk + Math.abs(b.jRescale);
+  const jErr = state.jDisk - (state.jDisk0 + b.jInfallDisk + b.jRescale - b.jAccreted - b.jLost);
+  return {
+    mass: massIn > 0 ? Math.abs(massErr) / massIn : 0,
+    angularMomentum: jScale > 0 ? Math.abs(jErr) / jScale : 0,
+  };
+}
+
+const GROWTH_MAX = 2;
+const SHRINK_MIN = 0.25;
+const REDO_FACTOR = 4;
+const MAX_RETRIES = 40;
+
+function sortedEvents(setup: EvolveSetup): number[] {
+  const times = [...setup.eventTimes, setup.tEnd];
+  if (setup.infall !== null && setup.infall.tEnd < setup.tEnd) times.push(setup.infall.tEnd);
+  return [...new Set(times.filter((t) => t > 0 && t <= setup.tEnd))].sort((a, b) => a - b);
+}
+
+function fillOmega(grid: DiskGrid, mStar: number, omega: Float64Array): void {
+  const gm = Math.sqrt(G_CGS * mStar);
+  for (let i = 0; i < grid.n; i++) omega[i] = gm / (grid.centers[i] * grid.sqrtCenters[i]);
+}
+
+export function evolveDisk(setup: EvolveSetup, observer: EvolveObserver = {}): EvolveOutcome {
+  const { grid, transport, theta, infall, spin, validationEdges } = setup;
+  const n = grid.n;
+  const sigma = Float64Array.from(setup.sigma0);
+  const sigmaNew = new Float64Array(n);
+  const fields = { nu: new Float64Array(n), temperature: new Float64Array(n) };
+  const nuNew = new Float64Array(n);
+  const tempScratch = new Float64Array(n);
+  const omega = new Float64Array(n);
+  const source = new Float64Array(n);
+  const ws = makeTransportWorkspace(n);
+  const events = sortedEvents(setup);
+
+  const mDisk0 = diskMass(grid, sigma);
+  const jDisk0 = diskAngularMomentum(grid, sigma, setup.mStar0);
+  const jSpin0 = spinAngularMomentum(spin.k2, setup.mStar0, spin.rStar, spin.period);
+  fillOmega(grid, setup.mStar0, omega);
+  const state: DiskState = {
+    t: 0, steps: 0, rejectedSteps: 0, sigma, temperature: fields.temperature, nu: fields.nu,
+    mStar: setup.mStar0, mDisk: mDisk0, jDisk: jDisk0, jSpin: jSpin0, mdotStar: 0,
+    transport: computeTransportCoefficients(grid, sigma, omega, transport, fields),
+    mDisk0, jDisk0, jSpin0,
+    budget: {
+      massAccreted: 0, massLost: 0, massInfallDisk: 0, massInfallStar: 0,
+      jAccreted: 0, jLost: 0, jInfallDisk: 0, jInfallStar: 0, jRescale: 0,
+    },
+  };
+  const fail = (status: ModelStatus, reason: string): EvolveOutcome => ({ status, reason, state });
+
+  let dt = setup.initialDt;
+  let next = 0;
+  while (next < events.length) {
+    if (state.steps >= setup.maxSteps) {
+      return fail('step_limit', `reached max_steps = ${setup.maxSteps} at t = ${(state.t / MYR_CGS).toPrecision(4)} Myr`);
+    }
+    const t = state.t;
+    const tEvent = events[next];
+    const infallOn = infall !== null && t < infall.tEnd;
+    // The floor of the change measure comes from the state the step starts from; an empty disk has no
+    // relative change to control (its first gas is exact deposit), so its first step is measured as 0.
+    let sigmaMaxOld = 0;
+    for (let i = 0; i < n; i++) if (sigma[i] > sigmaMaxOld) sigmaMaxOld = sigma[i];
+    let accepted = false;
+    for (let retry = 0; retry <= MAX_RETRIES && !accepted; retry++) {
+      const landing = dt >= (tEvent - t) * (1 - 1e-12);
+      const dtTry = landing ? tEvent - t : dt;
+      if (!(dtTry > 1e-12 * setup.tEnd) && !landing) {
+        return fail('step_collapse', `time step fell to ${dtTry.toExponential(3)} s at t = ${t.toExponential(4)} s`);
+      }
+      let toStar = 0;
+      let jToStar = 0;
+      if (infallOn) {
+        const rc = centrifugalRadius(infall.soundSpeed, infall.omegaCore, t + 0.5 * dtTry);
+        const deposit = depositInfall(grid, infall.mdot, rc, state.mStar, source);
+        toStar = deposit.toStar;
+        jToStar = deposit.angularMomentumToStar;
+      }
+      const edges = validationEdges;
+      const edgeAt = (f: ((s: number) => number) | undefined): EdgeCondition =>
+        f === undefined ? null : theta * f(t + dtTry) + (1 - theta) * f(t);
+      const input = {
+        grid, sigma, nuExplicit: fields.nu, nuImplicit: fields.nu, massSource: infallOn ? source : null,
+        dt: dtTry, theta, inner: edgeAt(edges?.inner), outer: edgeAt(edges?.outer),
+      };
+      let flows = viscousStep(input, ws, sigmaNew);
+      for (let k = 0; k < setup.picardIterations; k++) {
+        tempScratch.set(fields.temperature);
+        computeTransportCoefficients(grid, sigmaNew, omega, transport, { nu: nuNew, temperature: tempScratch });
+        flows = viscousStep({ ...input, nuImplicit: nuNew }, ws, sigmaNew);
+      }
+
+      // Change measure and validity of the new state.
+      let finite = true;
+      let negative = false;
+      for (let i = 0; i < n; i++) {
+        const s = sigmaNew[i];
+        if (!Number.isFinite(s)) finite = false;
+        if (s < 0) negative = true;
+      }
+      if (!finite || !Number.isFinite(flows.mdotInner) || !Number.isFinite(flows.mdotOuter)) {
+        if (retry === MAX_RETRIES) return fail('non_finite', `non-finite surface density at t = ${t.toExponential(4)} s`);
+        dt = dtTry * SHRINK_MIN;
+        state.rejectedSteps++;
+        continue;
+      }
+      if (negative) {
+        dt = dtTry * 0.5;
+        state.rejectedSteps++;
+        continue;
+      }
+      let change = 0;
+      const floor = 1e-6 * sigmaMaxOld;
+      for (let i = 0; i < n && sigmaMaxOld > 0; i++) {
+        const added = infallOn ? (dtTry * source[i]) / grid.area[i] : 0;
+        const denom = sigma[i] + added + floor;
+        const net = Math.abs(sigmaNew[i] - sigma[i]);
+        if (denom > 0) {
+          const c = Math.min(net, Math.abs(sigmaNew[i] - sigma[i] - added)) / denom;
+          if (c > change) change = c;
+        }
+      }
+      if (change > REDO_FACTOR * setup.stepChange && retry < MAX_RETRIES) {
+        dt = dtTry * Math.max(0.1, (0.8 * setup.stepChange) / change);
+        state.rejectedSteps++;
+        continue;
+      }
+
+      // Accept: bookkeeping with the j_i the step used (M_* at its start).
+      accepted = true;
+      const b = state.budget;
+      const gm = Math.sqrt(G_CGS * state.mStar);
+      b.massAccreted += flows.mdotInner * dtTry;
+      b.massLost += flows.mdotOuter * dtTry;
+      b.jAccreted += flows.mdotInner * dtTry * gm * grid.sqrtEdges[0];
+      b.jLost += flows.mdotOuter * dtTry * gm * grid.sqrtEdges[n];
+      if (infallOn) {
+        let m = 0;
+        let j = 0;
+        for (let i = 0; i < n; i++) {
+          m += source[i];
+          j += source[i] * grid.sqrtCenters[i];
+        }
+        b.massInfallDisk += m * dtTry;
+        b.jInfallDisk += j * gm * dtTry;
+        b.massInfallStar += toStar * dtTry;
+        b.jInfallStar += jToStar * dtTry;
+      }
+      sigma.set(sigmaNew);
+      state.mdotStar = flows.mdotInner + toStar;
+      const jDiskOld = diskAngularMomentum(grid, sigma, state.mStar);
+      if (setup.starGrows) {
+        const mNew = state.mStar + state.mdotStar * dtTry;
+        b.jRescale += jDiskOld * (Math.sqrt(mNew / state.mStar) - 1);
+        state.mStar = mNew;
+        fillOmega(grid, mNew, omega);
+      }
+      state.jDisk = setup.starGrows ? diskAngularMomentum(grid, sigma, state.mStar) : jDiskOld;
+      state.mDisk = diskMass(grid, sigma);
+      state.jSpin = spinAngularMomentum(spin.k2, state.mStar, spin.rStar, spin.period);
+      state.t = landing ? tEvent : t + dtTry;
+      state.steps++;
+      const suggested = dtTry * Math.min(GROWTH_MAX, Math.max(SHRINK_MIN, setup.stepChange / Math.max(change, 1e-300)));
+      dt = landing ? Math.max(dt, suggested) : suggested;
+    }
+    if (!accepted) return fail('step_collapse', `no acceptable step after ${MAX_RETRIES} retries at t = ${t.toExponential(4)} s`);
+
+    state.transport = computeTransportCoefficients(grid, sigma, omega, transport, fields);
+    observer.onStep?.(state);
+    while (next < events.length && events[next] <= state.t) {
+      observer.onEvent?.(state);
+      next++;
+    }
+  }
+  return { status: 'ok', reason: null, state };
+}

@@ -1,0 +1,86 @@
+/**
+ * ν(R) for the next step from the current Σ: layered α (active-layer.ts), gravitational-instability α
+ * (gravitational-instability.ts) and the midplane temperature (thermal-structure.ts), iterated together
+ * because α_GI depends on c_s(T) and T_visc on α. The fixed point is a contraction (T ∝ α^{1/3}, α_GI ∝ 1/T,
+ * so errors shrink by ~1/3 per pass); a few passes from last step's T reach 1e-10.
+ */
+import { SIGMA_SB_CGS } from '../../../shared/constants.js';
+import type { ActiveColumn } from './active-layer.js';
+import { layeredAlpha } from './active-layer.js';
+import {
+  FRAGMENTATION_BETA,
+  alphaGravitationalInstability,
+  coolingTimeOmega,
+  toomreQ,
+} from './gravitational-instability.js';
+import type { DiskGrid } from './grid.js';
+import type { Opacity } from './opacity.js';
+import { SOUND_SPEED2_PER_K, solveMidplaneTemperature, viscousHeatingCoefficient } from './thermal-structure.js';
+
+export interface TransportPhysics {
+  readonly alphaActive: number;
+  readonly alphaDead: number;
+  readonly activeColumn: ActiveColumn;
+  readonly opacity: Opacity;
+  /** Gravitational-instability transport, or null when switched off. */
+  readonly gi: { readonly qCrit: number; readonly alphaMax: number } | null;
+  /** T_irr^4 + T_floor^4 per cell, K^4. */
+  readonly baseTemperature4: Float64Array;
+}
+
+/** Per-cell fields the coefficient pass fills in; `temperature` also serves as the next pass's first guess. */
+export interface TransportFields {
+  readonly nu: Float64Array;
+  readonly temperature: Float64Array;
+}
+
+export interface TransportSummary {
+  /** Smallest Toomre Q over cells holding gas (Infinity for an empty disk). */
+  qMin: number;
+  /** True where some cell has Q < 1 and t_cool Ω < 3 (Gammie 2001). */
+  fragmenting: boolean;
+}
+
+const MAX_PASSES = 12;
+const SQRT_2PI = Math.sqrt(2 * Math.PI);
+
+export function computeTransportCoefficients(
+  grid: DiskGrid,
+  sigma: Float64Array,
+  omega: Float64Array,
+  physics: TransportPhysics,
+  fields: TransportFields,
+): TransportSummary {
+  const { alphaActive, alphaDead, activeColumn, opacity, gi, baseTemperature4 } = physics;
+  const { nu, temperature } = fields;
+  let qMin = Infinity;
+  let fragmenting = false;
+  for (let i = 0; i < grid.n; i++) {
+    const s = sigma[i];
+    const om = omega[i];
+    let t = temperature[i] > 0 ? temperature[i] : Math.sqrt(Math.sqrt(baseTemperature4[i]));
+    const sigmaActive = Math.min(activeColumn({ sigma: s, temperature: t, radius: grid.centers[i] }), s);
+    const alphaLayer = layeredAlpha(s, sigmaActive, alphaActive, alphaDead);
+    let alpha = alphaLayer;
+    let kappa = 0;
+    for (let pass = 0; pass < MAX_PASSES; pass++) {
+      const cs = Math.sqrt(SOUND_SPEED2_PER_K * t);
+      alpha = gi === null ? alphaLayer : alphaLayer + alphaGravitationalInstability(cs, om, s, gi.qCrit, gi.alphaMax);
+      kappa = opacity.isConstant ? opacity.kappa(0, t) : opacity.kappa((s * om) / (SQRT_2PI * cs), t);
+      const tNew = solveMidplaneTemperature(viscousHeatingCoefficient(kappa, s, alpha, om), baseTemperature4[i]);
+      const converged = Math.abs(tNew - t) <= 1e-10 * tNew;
+      t = tNew;
+      if (converged || (gi === null && opacity.isConstant)) break;
+    }
+    temperature[i] = t;
+    const cs2 = SOUND_SPEED2_PER_K * t;
+    nu[i] = (alpha * cs2) / om;
+    if (s > 0) {
+      const cs = Math.sqrt(cs2);
+      const q = toomreQ(cs, om, s);
+      if (q < qMin) qMin = q;
+      if (q < 1 && coolingTimeOmega(s, cs, t, kappa, om, SIGMA_SB_CGS) < FRAGMENTATION_BETA) fragmenting = true;
+    }
+  }
+  return { qMin, fragmenting };
+}

@@ -1,0 +1,109 @@
+/**
+ * From validated user-facing parameters to the cgs setup of the integrator: the one place where units are
+ * converted for a model run, and where constraints that need a derived quantity are checked (the final
+ * centrifugal radius of infall must sit well inside the grid).
+ */
+import { DisksweepError } from '../shared/errors.js';
+import type { ModelParams } from '../shared/model-params.js';
+import { auToCm, daysToS, lsunToErgS, msunToG, myrToS, rsunToCm, yrToS } from '../shared/units.js';
+import { fixedColumnActiveLayer, uniformActiveLayer } from './kernels/disk/active-layer.js';
+import type { EvolveSetup, InfallSetup } from './kernels/disk/evolve.js';
+import { makeLogGrid, type DiskGrid } from './kernels/disk/grid.js';
+import { centrifugalRadius, shuInfallRate } from './kernels/disk/infall.js';
+import { constantOpacity } from './kernels/disk/opacity.js';
+import { SOUND_SPEED2_PER_K, irradiationTemperature4 } from './kernels/disk/thermal-structure.js';
+
+/** Window over which `mdot_star_avg_msun_yr` averages the accretion rate, s. */
+export const MDOT_AVERAGE_WINDOW_S = yrToS(1e4);
+
+export interface ModelSetup {
+  readonly evolve: EvolveSetup;
+  /** Checkpoint times, s (those after t_end dropped). */
+  readonly checkpointTimes: readonly number[];
+  /** Start of each checkpoint's averaging window, s (0 where the window would start before t = 0). */
+  readonly averageStartTimes: readonly number[];
+  /** Series sample times, s. */
+  readonly seriesTimes: readonly number[];
+}
+
+/** Infall rate, duration and final centrifugal radius for the infall parameters (cgs). */
+export function infallFromParams(p: ModelParams): InfallSetup & { rcFinal: number } {
+  const soundSpeed = Math.sqrt(SOUND_SPEED2_PER_K * p.t_core_k);
+  const mdot = shuInfallRate(soundSpeed);
+  const tEnd = msunToG(p.m_core_msun) / mdot;
+  return { mdot, soundSpeed, omegaCore: p.omega_core_s, tEnd, rcFinal: centrifugalRadius(soundSpeed, p.omega_core_s, tEnd) };
+}
+
+/**
+ * Lynden-Bell & Pringle (1974) similarity profile at t = 0 (Hartmann et al. 1998, eq. 33 at T = 1):
+ * Σ ∝ (R/R1)^{-γ} exp[−(R/R1)^{2−γ}], normalised so the discrete disk mass is exactly M_disk.
+ */
+export function lbpInitialProfile(grid: DiskGrid, mDisk: number, r1: number, gamma: number): Float64Array {
+  const sigma = new Float64Array(grid.n);
+  let mass = 0;
+  for (let i = 0; i < grid.n; i++) {
+    const x = grid.centers[i] / r1;
+    sigma[i] = x ** -gamma * Math.exp(-(x ** (2 - gamma)));
+    mass += sigma[i] * grid.area[i];
+  }
+  const scale = mDisk / mass;
+  for (let i = 0; i < grid.n; i++) sigma[i] *= scale;
+  return sigma;
+}
+
+export function setupModel(p: ModelParams): ModelSetup {
+  const grid = makeLogGrid(auToCm(p.r_in_au), auToCm(p.r_out_au), p.n_cells);
+  const infall = p.initial_state === 'infall' ? infallFromParams(p) : null;
+  if (infall !== null && infall.rcFinal > grid.edges[grid.n] / 10) {
+    const rcAu = infall.rcFinal / auToCm(1);
+    throw new DisksweepError('input/invalid-parameter', 'the grid is too small for the infall', {
+      details: [
+        `r_out_au: must exceed 10x the final centrifugal radius r_c = ${rcAu.toPrecision(4)} AU ` +
+          `(m_core_msun = ${p.m_core_msun}, t_core_k = ${p.t_core_k}, omega_core_s = ${p.omega_core_s}); ` +
+          `got ${p.r_out_au}: raise r_out_au to at least ${(10 * rcAu).toPrecision(3)} or lower omega_core_s`,
+      ],
+    });
+  }
+  const sigma0 =
+    p.initial_state === 'disk'
+      ? lbpInitialProfile(grid, msunToG(p.m_disk_msun), auToCm(p.r1_au), p.gamma_lbp)
+      : new Float64Array(grid.n);
+  const luminosity = lsunToErgS(p.l_star_lsun);
+  const floor4 = p.t_floor_k ** 4;
+  const baseTemperature4 = grid.centers.map((r) => irradiationTemperature4(r, luminosity) + floor4);
+  const activeColumn =
+    p.active_layer === 'fixed_column'
+      ? fixedColumnActiveLayer.create({ sigmaActiveFace: p.sigma_active_face_g_cm2 })
+      : uniformActiveLayer.create({});
+
+  const tEnd = myrToS(p.t_end_myr);
+  const checkpointTimes = p.checkpoints_myr.map(myrToS);
+  const averageStartTimes = checkpointTimes.map((t) => Math.max(0, t - MDOT_AVERAGE_WINDOW_S));
+  const seriesTimes = Array.from({ length: p.n_series }, (_, k) => (tEnd * (k + 1)) / p.n_series);
+
+  const evolve: EvolveSetup = {
+    grid,
+    sigma0,
+    mStar0: msunToG(p.initial_state === 'infall' ? p.m_seed_msun : p.m_star_msun),
+    starGrows: p.star_mass === 'growing',
+    transport: {
+      alphaActive: p.alpha_active,
+      alphaDead: p.alpha_dead,
+      activeColumn,
+      opacity: constantOpacity(p.kappa_cm2_g),
+      gi: p.gi_transport === 'on' ? { qCrit: p.q_crit, alphaMax: p.alpha_gi_max } : null,
+      baseTemperature4,
+    },
+    theta: p.theta,
+    picardIterations: p.picard_iterations,
+    stepChange: p.step_change,
+    maxSteps: p.max_steps,
+    tEnd,
+    eventTimes: [...checkpointTimes, ...averageStartTimes, ...seriesTimes],
+    infall,
+    spin: { k2: p.k2_star, rStar: rsunToCm(p.r_star_rsun), period: daysToS(p.p_star_days) },
+    // A tenth of a year is far below any viscous time on the grid; the step doubles from there.
+    initialDt: yrToS(0.1),
+  };
+  return { evolve, checkpointTimes, averageStartTimes, seriesTimes };
+}
