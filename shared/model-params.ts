@@ -48,6 +48,7 @@ export type ParamDescriptor = NumberParam | ChoiceParam | ListParam;
 
 const num = (p: Omit<NumberParam, 'kind'>): NumberParam => ({ kind: 'number', ...p });
 const choice = (p: Omit<ChoiceParam, 'kind'>): ChoiceParam => ({ kind: 'choice', ...p });
+const list = (p: Omit<ListParam, 'kind'>): ListParam => ({ kind: 'list', ...p });
 
 /** Every model parameter, in the order `--list` prints them. */
 export const PARAMS = {
@@ -180,10 +181,10 @@ export const PARAMS = {
     unit: 'Myr', default: 5, min: 0, max: 100, minExclusive: true,
     description: 'End of the run, counted from collapse onset (or from the given disk).',
   }),
-  checkpoints_myr: {
-    kind: 'list', unit: 'Myr', default: [0.1, 0.3, 0.5, 1, 2, 3, 5], min: 0, max: 100,
+  checkpoints_myr: list({
+    unit: 'Myr', default: [0.1, 0.3, 0.5, 1, 2, 3, 5], min: 0, max: 100,
     description: 'Times at which the full set of outputs is recorded; those after t_end_myr are dropped.',
-  } satisfies ListParam,
+  }),
   f_mass_star: num({
     unit: '1', default: 0.99, min: 0, max: 1, minExclusive: true,
     description: 'Solar-like split: the star must hold at least this share of the mass.',
@@ -240,9 +241,12 @@ function inRange(p: NumberParam | ListParam, v: number): boolean {
   return Number.isFinite(v) && minOk && maxOk;
 }
 
+/** A received value as the user would recognise it (JSON would print Infinity and NaN as null). */
+const shown = (v: unknown): string => (typeof v === 'number' ? String(v) : JSON.stringify(v) ?? String(v));
+
 function numberSchema(p: NumberParam) {
   return z
-    .number({ error: (iss) => `expected a number, ${allowedText(p)} (got ${JSON.stringify(iss.input)})` })
+    .number({ error: (iss) => `expected a number, ${allowedText(p)} (got ${shown(iss.input)})` })
     .superRefine((v, ctx) => {
       if (!inRange(p, v) || (p.integer === true && !Number.isInteger(v))) {
         ctx.addIssue({ code: 'custom', message: `must be ${allowedText(p)} (got ${v})` });
@@ -253,7 +257,7 @@ function numberSchema(p: NumberParam) {
 
 function listSchema(p: ListParam) {
   return z
-    .array(z.number(), { error: (iss) => `expected a list of numbers (got ${JSON.stringify(iss.input)})` })
+    .array(z.number(), { error: (iss) => `expected a list of numbers (got ${shown(iss.input)})` })
     .min(1, { error: 'must hold at least one value' })
     .superRefine((values, ctx) => {
       values.forEach((v, i) => {
@@ -270,7 +274,7 @@ function choiceSchema(p: ChoiceParam) {
   const [first, ...rest] = p.choices;
   return z
     .enum([first, ...rest] as [string, ...string[]], {
-      error: (iss) => `must be ${allowedText(p)} (got ${JSON.stringify(iss.input)})`,
+      error: (iss) => `must be ${allowedText(p)} (got ${shown(iss.input)})`,
     })
     .default(p.default);
 }

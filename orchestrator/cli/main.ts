@@ -1,0 +1,82 @@
+#!/usr/bin/env node
+/**
+ * The `disksweep` command. Each subcommand parses and validates its flags, does its work, and exits with a
+ * code scripts can rely on (see EXIT CODES in --help).
+ */
+import { Command, CommanderError } from 'commander';
+import { EXIT_BAD_INPUT, EXIT_OK, describeError, exitCodeFor } from '../../shared/errors.js';
+import { parseModelParams } from '../../shared/model-params.js';
+import { MODEL_VERSION } from '../../shared/model-version.js';
+import { runValidatedModel } from '../../worker/model.js';
+import { formatModelReport, formatParamList } from './model-report.js';
+import { paramsFromFlags } from './param-flags.js';
+
+/** Exit code of `disksweep model` when the model ran but ended with a numerical status other than ok. */
+const EXIT_MODEL_NOT_OK = 3;
+
+const EXIT_CODES_HELP = `
+Exit codes:
+  0  success
+  1  failure while running (a bug, or an unreadable file)
+  2  bad input: an unknown parameter, a wrong type or a value outside its range; nothing was run
+  3  (model) the model ran but ended with status step_limit, step_collapse, non_finite or budget_error`;
+
+const MODEL_HELP = `
+Runs one 1-D viscous accretion-disk model: a seed star inside a collapsing cloud core (the default) or a
+ready-made disk, evolved to t_end_myr, and prints checkpoints, the solar-like split, budgets and a plot.
+
+Examples:
+  disksweep model                                   the default infall model, 5 Myr
+  disksweep model --set alpha_active=1e-3 --set t_end_myr=3
+  disksweep model --set initial_state=disk --set m_disk_msun=0.1 --set r1_au=20
+  disksweep model --set active_layer=fixed_column --set alpha_dead=1e-5 --json > run.json
+  disksweep model --list                            every parameter with unit, default and range
+
+Validity limits: thin, Keplerian, axisymmetric disk around a point-mass star (self-gravity only through the
+Toomre-Q transport term; M_disk/M_* > 0.3 is flagged); vertically averaged, one-zone thermal structure;
+the Shu/Cassen-Moosman infall is the slowly rotating isothermal-sphere solution.`;
+
+function modelCommand(): Command {
+  return new Command('model')
+    .description('run one disk model and print a summary (or --json)')
+    .option('-s, --set <name=value>', 'set a parameter (repeatable); see --list', (v: string, acc: string[]) => [...acc, v], [] as string[])
+    .option('--json', 'print exactly one ModelResult JSON object on stdout')
+    .option('--list', 'list every parameter with unit, default, range and meaning, then exit')
+    .addHelpText('after', MODEL_HELP + '\n' + EXIT_CODES_HELP)
+    .action((opts: { set: string[]; json?: boolean; list?: boolean }) => {
+      if (opts.list === true) {
+        process.stdout.write(formatParamList() + '\n');
+        return;
+      }
+      const params = parseModelParams(paramsFromFlags(opts.set));
+      const result = runValidatedModel(params);
+      process.stdout.write((opts.json === true ? JSON.stringify(result) : formatModelReport(params, result)) + '\n');
+      if (result.status !== 'ok') process.exitCode = EXIT_MODEL_NOT_OK;
+    });
+}
+
+function buildProgram(): Command {
+  return new Command('disksweep')
+    .description('Parameter sweeps of 1-D protostellar accretion-disk evolution')
+    .version(MODEL_VERSION, '-V, --version', 'print the model version')
+    .addHelpText('after', EXIT_CODES_HELP)
+    .showHelpAfterError('(run with --help for usage)')
+    .exitOverride()
+    .addCommand(modelCommand().exitOverride());
+}
+
+async function main(argv: readonly string[]): Promise<number> {
+  try {
+    await buildProgram().parseAsync([...argv], { from: 'user' });
+    return typeof process.exitCode === 'number' ? process.exitCode : EXIT_OK;
+  } catch (error) {
+    if (error instanceof CommanderError) {
+      // --help and --version end here with exit code 0; flag mistakes with commander's own message (already printed).
+      return error.exitCode === 0 ? EXIT_OK : EXIT_BAD_INPUT;
+    }
+    process.stderr.write(describeError(error) + '\n');
+    return exitCodeFor(error);
+  }
+}
+
+process.exitCode = await main(process.argv.slice(2));
