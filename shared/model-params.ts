@@ -101,8 +101,9 @@ export const PARAMS = {
     description: 'Inner edge of the grid (zero-torque boundary); gas crossing it is accreted by the star.',
   }),
   r_out_au: num({
-    unit: 'AU', default: 1000, min: 1, max: 1e6, logScale: true,
+    unit: 'AU', default: 1e4, min: 1, max: 1e6, logScale: true,
     description: 'Outer edge of the grid (zero torque); gas leaving it is booked as lost. Keep it far out.',
+    source: 'the default infall model loses 4e-4 M_sun through 1e4 AU in 5 Myr (5e-2 through 1000 AU)',
   }),
   n_cells: num({
     unit: '1', default: 200, min: 16, max: 20000, integer: true,
@@ -197,7 +198,10 @@ export const PARAMS = {
   }),
   theta: num({
     unit: '1', default: 1, min: 0.5, max: 1,
-    description: 'Implicitness of the time step: 1 = backward Euler (robust), 0.5 = Crank-Nicolson (2nd order).',
+    description:
+      'Implicitness of the time step: 1 = backward Euler (robust, the default), 0.5 = Crank-Nicolson (2nd order ' +
+      'in time, but it does not damp the stiff inner cells: runs with infall need many more steps; use it for ' +
+      'convergence studies, or a value slightly above 0.5).',
   }),
   picard_iterations: num({
     unit: '1', default: 0, min: 0, max: 20, integer: true,

@@ -152,6 +152,7 @@ describe('a full infall run gathers mass at the Shu rate until the core is used 
     t_core_k: 10,
     m_seed_msun: 0.01,
     n_cells: 120,
+    r_out_au: 1000, // close enough that some gas leaves, so the bracket below is exercised
     t_end_myr: 2,
     checkpoints_myr: [0.1, 0.3, 0.5, 0.6, 1, 2],
   };
