@@ -1,0 +1,193 @@
+/**
+ * `npm run bench`: how fast one model is, and how close the implicit transport kernel comes to compiled C.
+ * Prints one JSON object to stdout (progress to stderr). It reports; it never fails on a slow machine.
+ *
+ * Sections, in this order (the kernel first, so its JIT feedback comes from the kernel alone, as in C):
+ *   implicit_step    ns per cell per step of viscousStep (row assembly + Thomas solve) at n = 200 and 2000
+ *   c_reference      the same loop in C (implicit-step.c, cc -O2), the ratio, and a check that C and JS agree
+ *   default_infall   runModel({}): 200 cells, 5 Myr, infall start
+ *   validation_disk  runModel({ initial_state: 'disk' })
+ * The JS and C step loops run in alternating rounds, so a load spike on a shared machine hits both alike.
+ */
+import { arch, availableParallelism, cpus, loadavg, platform } from 'node:os';
+import {
+  C_FLAGS,
+  checkReference,
+  compileReference,
+  timeReference,
+  type CaseCheck,
+  type CompiledReference,
+} from './c-reference.js';
+import { makeStepTimer, type StepCaseName, type StepSamples } from './implicit-step-case.js';
+import { benchModel, type ModelBenchResult } from './model-bench.js';
+import { median, progress, quantile, sig } from './stats.js';
+
+const GOALS = { default_model_ms_target: 100, js_over_c_target: 1.5 } as const;
+/** Relative agreement C and JS must reach on every number of the check solve. */
+const MATCH_TOLERANCE = 1e-12;
+/** Grid sizes, and steps per timed batch (about 2·10^5 cell-steps, a millisecond or two). */
+const STEP_SIZES = [
+  { n: 200, reps: 1000 },
+  { n: 2000, reps: 100 },
+] as const;
+/** Alternating JS/C rounds, and timed batches per round and language. */
+const STEP_ROUNDS = 5;
+const BATCHES_PER_ROUND = 61;
+const CHECKS: readonly { n: number; name: StepCaseName }[] = [
+  { n: 200, name: 'timed' },
+  { n: 2000, name: 'timed' },
+  { n: 200, name: 'branches' },
+];
+
+type SizeKey = `n_${number}`;
+const sizeKey = (n: number): SizeKey => `n_${n}`;
+
+interface StepReport {
+  /** Median over all batches. */
+  ns_per_cell_step: number;
+  ns_per_cell_step_min: number;
+  ns_per_cell_step_p90: number;
+  us_per_step: number;
+  steps_per_batch: number;
+  batches: number;
+}
+
+function stepReport(runs: readonly StepSamples[]): StepReport {
+  const samples = runs.flatMap((r) => r.nsPerCellStep);
+  const { n, reps } = runs[0];
+  const med = median(samples);
+  return {
+    ns_per_cell_step: sig(med),
+    ns_per_cell_step_min: sig(Math.min(...samples)),
+    ns_per_cell_step_p90: sig(quantile(samples, 0.9)),
+    us_per_step: sig((med * n) / 1000),
+    steps_per_batch: reps,
+    batches: samples.length,
+  };
+}
+
+interface CReport {
+  available: boolean;
+  reason: string | null;
+  compiler: string | null;
+  compiler_version: string | null;
+  compile_flags: string[];
+  /** One StepReport per grid size (keys as in implicit_step), null when there is no C. */
+  [size: SizeKey]: StepReport | null;
+  ratio_js_over_c: Record<SizeKey, number> | null;
+  /** The same ratio from the fastest batch of each: less sensitive to load from other processes. */
+  ratio_js_over_c_min: Record<SizeKey, number> | null;
+  c_matches_js: boolean | null;
+  check: { tolerance: number; cases: CaseCheck[] } | null;
+}
+
+function unavailable(reason: string): CReport {
+  const sizes = Object.fromEntries(STEP_SIZES.map(({ n }) => [sizeKey(n), null]));
+  return {
+    available: false, reason, compiler: null, compiler_version: null, compile_flags: C_FLAGS, ...sizes,
+    ratio_js_over_c: null, ratio_js_over_c_min: null, c_matches_js: null, check: null,
+  };
+}
+
+/** The step loops of both languages in alternating rounds (JS alone when ref is null), then the C/JS check. */
+function benchSteps(ref: CompiledReference | null): { js: Record<SizeKey, StepReport>; c: CReport | null } {
+  const jsTimers = new Map(STEP_SIZES.map(({ n, reps }) => [n, makeStepTimer(n, reps)]));
+  const jsRuns = new Map<number, StepSamples[]>(STEP_SIZES.map(({ n }) => [n, []]));
+  const cRuns = new Map<number, StepSamples[]>(STEP_SIZES.map(({ n }) => [n, []]));
+  for (let round = 0; round < STEP_ROUNDS; round++) {
+    progress(`implicit step, round ${round + 1}/${STEP_ROUNDS}${ref === null ? ' (JS only)' : ' (JS, C)'}`);
+    for (const { n, reps } of STEP_SIZES) {
+      const timeJs = jsTimers.get(n);
+      if (timeJs !== undefined) jsRuns.get(n)?.push(timeJs(BATCHES_PER_ROUND));
+      if (ref !== null) cRuns.get(n)?.push(timeReference(ref, n, reps, BATCHES_PER_ROUND));
+    }
+  }
+  const js: Record<SizeKey, StepReport> = {};
+  for (const { n } of STEP_SIZES) js[sizeKey(n)] = stepReport(jsRuns.get(n) ?? []);
+  if (ref === null) return { js, c: null };
+
+  const cases = CHECKS.map(({ n, name }) => checkReference(ref, n, name));
+  const matches = cases.every((k) => k.max_rel_diff <= MATCH_TOLERANCE && k.checksum_rel_diff <= MATCH_TOLERANCE);
+  progress(`C reference (${ref.version}): solution ${matches ? 'agrees with' : 'DIFFERS from'} JS`);
+  const timings: Record<SizeKey, StepReport> = {};
+  const ratio: Record<SizeKey, number> = {};
+  const ratioMin: Record<SizeKey, number> = {};
+  for (const { n } of STEP_SIZES) {
+    const key = sizeKey(n);
+    const t = stepReport(cRuns.get(n) ?? []);
+    timings[key] = t;
+    ratio[key] = sig(js[key].ns_per_cell_step / t.ns_per_cell_step, 3);
+    ratioMin[key] = sig(js[key].ns_per_cell_step_min / t.ns_per_cell_step_min, 3);
+  }
+  const c: CReport = {
+    available: true, reason: null, compiler: ref.compiler, compiler_version: ref.version, compile_flags: C_FLAGS,
+    ...timings, ratio_js_over_c: ratio, ratio_js_over_c_min: ratioMin, c_matches_js: matches,
+    check: { tolerance: MATCH_TOLERANCE, cases },
+  };
+  return { js, c };
+}
+
+function main(): void {
+  const started = performance.now();
+  const loadStart = loadavg()[0];
+
+  const compiled = compileReference();
+  if ('reason' in compiled) progress(`C reference skipped: ${compiled.reason}`);
+  const ref = 'reason' in compiled ? null : compiled;
+  let steps: { js: Record<SizeKey, StepReport>; c: CReport | null };
+  try {
+    steps = benchSteps(ref);
+  } catch (e) {
+    if (ref === null) throw e;
+    // The C side failed: report why, and time the JS alone.
+    const reason = `the C reference failed to run: ${e instanceof Error ? e.message : String(e)}`;
+    progress(reason);
+    steps = { js: benchSteps(null).js, c: unavailable(reason) };
+  } finally {
+    ref?.dispose();
+  }
+  const implicit = steps.js;
+  const c = steps.c ?? unavailable('reason' in compiled ? compiled.reason : 'unknown');
+
+  const defaultInfall: ModelBenchResult = benchModel('default_infall', {}, { warmupRuns: 8, warmupMs: 1500, runs: 31 });
+  const validationDisk: ModelBenchResult = benchModel(
+    'validation_disk',
+    { initial_state: 'disk' },
+    { warmupRuns: 8, warmupMs: 1000, runs: 51 },
+  );
+
+  const ratios = c.ratio_js_over_c === null ? [] : Object.values(c.ratio_js_over_c);
+  const worst = ratios.length === 0 ? null : Math.max(...ratios);
+  const cpuList = cpus();
+  const report = {
+    default_infall: defaultInfall,
+    validation_disk: validationDisk,
+    implicit_step: {
+      what: 'viscousStep: theta = 1, zero-torque edges, lagged nu; row assembly + Thomas solve; median over batches',
+      ...implicit,
+    },
+    c_reference: c,
+    machine: {
+      node: process.version,
+      v8: process.versions.v8,
+      cpu_model: cpuList.length > 0 ? cpuList[0].model.trim() : 'unknown',
+      cores: cpuList.length,
+      available_parallelism: availableParallelism(),
+      platform: `${platform()}-${arch()}`,
+      // Well above 0 means other processes competed for the cores: the timings are then noisier.
+      load_average_1m_start: sig(loadStart, 3),
+      load_average_1m_end: sig(loadavg()[0], 3),
+    },
+    goals: {
+      ...GOALS,
+      default_model_ms: defaultInfall.median_ms,
+      default_model_ms_met: defaultInfall.median_ms <= GOALS.default_model_ms_target,
+      js_over_c_worst: worst,
+      js_over_c_met: worst === null ? null : worst <= GOALS.js_over_c_target,
+    },
+    bench_wall_s: sig((performance.now() - started) / 1000, 3),
+  };
+  process.stdout.write(`${JSON.stringify(report, null, 2)}\n`);
+}
+
+main();
