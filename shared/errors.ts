@@ -8,6 +8,29 @@ export type ErrorCode =
   | 'input/invalid-parameter'
   | 'input/unknown-parameter'
   | 'input/invalid-flag'
+  | 'input/invalid-spec'
+  | 'input/unreadable-file'
+  | 'input/model-version'
+  /** The file is not a disksweep database (not SQLite, or another program's SQLite file). */
+  | 'input/not-our-database'
+  /** The database was written by a newer disksweep (schema version above the one this build knows). */
+  | 'input/newer-schema'
+  /** A read-only command met a database whose schema a write command must upgrade first. */
+  | 'input/older-schema'
+  /** A read-only command was pointed at a database file that does not exist. */
+  | 'input/missing-database'
+  /** Another live process owns the sweep lock of the database. */
+  | 'store/locked'
+  /** This process's lock was taken over (its heartbeat went stale); it must stop writing. */
+  | 'store/lock-lost'
+  /** A result handed to the store does not match the result schema. */
+  | 'store/invalid-outcome'
+  /** A row read back from the database does not match the result schema. */
+  | 'store/invalid-row'
+  /** The database tables disagree with the parameter table or the output registry, or migrations are missing. */
+  | 'store/schema-mismatch'
+  /** Results were written for a sweep the database does not hold. */
+  | 'store/unknown-sweep'
   | 'internal/unexpected';
 
 export class DisksweepError extends Error {

@@ -51,19 +51,30 @@ export function lbpInitialProfile(grid: DiskGrid, mDisk: number, r1: number, gam
   return sigma;
 }
 
+/**
+ * Constraints that need a derived quantity, as detail lines (empty when all hold). Shared by `setupModel` and by
+ * sweep validation, which checks them before anything is queued.
+ */
+export function derivedConstraintProblems(p: ModelParams): string[] {
+  if (p.initial_state !== 'infall') return [];
+  const { rcFinal } = infallFromParams(p);
+  const rOut = auToCm(p.r_out_au);
+  if (rcFinal <= rOut / 10) return [];
+  const rcAu = rcFinal / auToCm(1);
+  return [
+    `r_out_au: must exceed 10x the final centrifugal radius r_c = ${rcAu.toPrecision(4)} AU ` +
+      `(m_core_msun = ${p.m_core_msun}, t_core_k = ${p.t_core_k}, omega_core_s = ${p.omega_core_s}); ` +
+      `got ${p.r_out_au}: raise r_out_au to at least ${(10 * rcAu).toPrecision(3)} or lower omega_core_s`,
+  ];
+}
+
 export function setupModel(p: ModelParams): ModelSetup {
+  const problems = derivedConstraintProblems(p);
+  if (problems.length > 0) {
+    throw new DisksweepError('input/invalid-parameter', 'the grid is too small for the infall', { details: problems });
+  }
   const grid = makeLogGrid(auToCm(p.r_in_au), auToCm(p.r_out_au), p.n_cells);
   const infall = p.initial_state === 'infall' ? infallFromParams(p) : null;
-  if (infall !== null && infall.rcFinal > grid.edges[grid.n] / 10) {
-    const rcAu = infall.rcFinal / auToCm(1);
-    throw new DisksweepError('input/invalid-parameter', 'the grid is too small for the infall', {
-      details: [
-        `r_out_au: must exceed 10x the final centrifugal radius r_c = ${rcAu.toPrecision(4)} AU ` +
-          `(m_core_msun = ${p.m_core_msun}, t_core_k = ${p.t_core_k}, omega_core_s = ${p.omega_core_s}); ` +
-          `got ${p.r_out_au}: raise r_out_au to at least ${(10 * rcAu).toPrecision(3)} or lower omega_core_s`,
-      ],
-    });
-  }
   const sigma0 =
     p.initial_state === 'disk'
       ? lbpInitialProfile(grid, msunToG(p.m_disk_msun), auToCm(p.r1_au), p.gamma_lbp)

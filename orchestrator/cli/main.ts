@@ -10,6 +10,7 @@ import { MODEL_VERSION } from '../../shared/model-version.js';
 import { runValidatedModel } from '../../worker/model.js';
 import { formatModelReport, formatParamList } from './model-report.js';
 import { paramsFromFlags } from './param-flags.js';
+import { sweepCommands } from './sweep-commands.js';
 
 /** Exit code of `disksweep model` when the model ran but ended with a numerical status other than ok. */
 const EXIT_MODEL_NOT_OK = 3;
@@ -19,7 +20,8 @@ Exit codes:
   0  success
   1  failure while running (a bug, or an unreadable file)
   2  bad input: an unknown parameter, a wrong type or a value outside its range; nothing was run
-  3  (model) the model ran but ended with status step_limit, step_collapse, non_finite or budget_error`;
+  3  (model) the model ran but ended with status step_limit, step_collapse, non_finite or budget_error
+  130 (run, resume) interrupted by Ctrl-C after committing what had finished; resume goes on from there`;
 
 const MODEL_HELP = `
 Runs one 1-D viscous accretion-disk model: a seed star inside a collapsing cloud core (the default) or a
@@ -56,13 +58,15 @@ function modelCommand(): Command {
 }
 
 function buildProgram(): Command {
-  return new Command('disksweep')
+  const program = new Command('disksweep')
     .description('Parameter sweeps of 1-D protostellar accretion-disk evolution')
     .version(MODEL_VERSION, '-V, --version', 'print the model version')
     .addHelpText('after', EXIT_CODES_HELP)
     .showHelpAfterError('(run with --help for usage)')
     .exitOverride()
     .addCommand(modelCommand().exitOverride());
+  for (const c of sweepCommands()) program.addCommand(c.exitOverride());
+  return program;
 }
 
 async function main(argv: readonly string[]): Promise<number> {

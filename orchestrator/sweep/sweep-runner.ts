@@ -1,0 +1,115 @@
+/**
+ * Drives one sweep through any transport: builds the chunks that still need work (chunk k is always the
+ * index range [k·size, (k+1)·size); a resumed chunk holds only its missing points), keeps the transport's
+ * window full, and commits each chunk's outcomes to the store in one transaction as they arrive. The store is
+ * the truth: what is committed is never run again, whatever happens to the process afterwards.
+ */
+import type { ChunkOutcomePayload, ChunkTaskPayload } from '../../shared/job-payload.js';
+import type { SweepStore, StoredOutcome } from '../store/sweep-store.js';
+import type { Transport } from '../transport/transport.js';
+import type { PointSource } from './points.js';
+
+export interface SweepRunInput {
+  readonly sweepId: string;
+  readonly chunkSize: number;
+  readonly source: PointSource;
+  /** True for point indexes that already have a result that counts (see SweepStore.pointIndexesWithResult). */
+  readonly hasResult: Uint8Array;
+  readonly store: SweepStore;
+  readonly transport: Transport;
+  /** Called after each commit with the running counts. */
+  readonly onProgress?: (counts: SweepCounts) => void;
+  /** When aborted, no new chunk is submitted; chunks in flight finish and are committed. */
+  readonly signal?: AbortSignal;
+}
+
+export interface SweepCounts {
+  /** Points with a result (this run's plus those found already stored). */
+  done: number;
+  /** Of this run's results, those that are not `ok`. */
+  failed: number;
+  total: number;
+  /** Points this run committed. */
+  committed: number;
+}
+
+export function chunkCount(nPoints: number, chunkSize: number): number {
+  return Math.ceil(nPoints / chunkSize);
+}
+
+/** Build chunk k from the points in its range that still need a result; null when none do. */
+export function buildChunk(input: Pick<SweepRunInput, 'sweepId' | 'chunkSize' | 'source' | 'hasResult'>, k: number): ChunkTaskPayload | null {
+  const { sweepId, chunkSize, source, hasResult } = input;
+  const points: ChunkTaskPayload['points'] = [];
+  const end = Math.min(source.size, (k + 1) * chunkSize);
+  for (let i = k * chunkSize; i < end; i++) {
+    if (hasResult[i] === 1) continue;
+    const t = source.taskAt(i);
+    points.push({ point_index: i, point_id: t.pointId, params: t.params });
+  }
+  return points.length > 0 ? { sweep_id: sweepId, chunk_index: k, points } : null;
+}
+
+/** Turn a chunk outcome into store rows, re-deriving each point from its index (and checking its id). */
+export function storedOutcomes(source: PointSource, outcome: ChunkOutcomePayload): StoredOutcome[] {
+  return outcome.points.map((p) => {
+    const task = source.taskAt(p.point_index);
+    const mismatch = task.pointId !== p.point_id;
+    return {
+      sweepId: outcome.sweep_id,
+      pointId: task.pointId,
+      pointIndex: p.point_index,
+      params: task.params,
+      outcome: mismatch
+        ? { kind: 'infrastructure', reason: `point id mismatch: worker ran ${p.point_id}, expected ${task.pointId} (another model version?)` }
+        : p.outcome,
+      workerHost: outcome.worker_host,
+    };
+  });
+}
+
+export async function runSweep(input: SweepRunInput): Promise<SweepCounts & { interrupted: boolean }> {
+  const { source, store, transport, hasResult, signal } = input;
+  let already = 0;
+  for (let i = 0; i < source.size; i++) already += hasResult[i];
+  const counts: SweepCounts = { done: already, failed: 0, total: source.size, committed: 0 };
+  let wake: (() => void) | null = null;
+
+  transport.onOutcome(async (outcome) => {
+    const rows = storedOutcomes(source, outcome);
+    store.writeResults(rows);
+    for (const r of rows) {
+      if (hasResult[r.pointIndex] === 1) continue; // a repeated delivery
+      hasResult[r.pointIndex] = 1;
+      counts.done++;
+      counts.committed++;
+      if (r.outcome.kind !== 'model' || r.outcome.result.status !== 'ok') counts.failed++;
+    }
+    input.onProgress?.({ ...counts });
+    wake?.();
+  });
+
+  const chunks = chunkCount(source.size, input.chunkSize);
+  const stopped = (): boolean => signal?.aborted === true;
+  signal?.addEventListener('abort', () => wake?.(), { once: true });
+  let interrupted = false;
+  for (let k = 0; k < chunks; k++) {
+    if (stopped()) {
+      interrupted = true;
+      break;
+    }
+    const chunk = buildChunk(input, k);
+    if (chunk === null) continue;
+    while (transport.pending() >= transport.window && !stopped()) {
+      await new Promise<void>((resolve) => (wake = resolve));
+      wake = null;
+    }
+    if (stopped()) {
+      interrupted = true;
+      break;
+    }
+    await transport.submit(chunk);
+  }
+  await transport.close('graceful');
+  return { ...counts, interrupted };
+}

@@ -1,0 +1,87 @@
+/**
+ * The embedded default: a pool of worker threads in this process (piscina), one per core unless told
+ * otherwise. Threads are reused across chunks; each outcome comes back as a transferred buffer. A thread that
+ * dies takes only its chunk with it: that chunk's points are committed as infrastructure failures, which
+ * `resume` retries.
+ */
+import { availableParallelism, hostname } from 'node:os';
+import { fileURLToPath } from 'node:url';
+import { Piscina } from 'piscina';
+import { chunkOutcomeSchema, type ChunkOutcomePayload, type ChunkTaskPayload } from '../../shared/job-payload.js';
+import type { CommitOutcome, Transport } from './transport.js';
+
+const WORKER_FILE = fileURLToPath(new URL('../../worker/chunk-worker.js', import.meta.url));
+const decoder = new TextDecoder();
+
+export interface EmbeddedOptions {
+  /** Worker threads; default one per core. */
+  readonly threads?: number;
+}
+
+export function defaultThreadCount(): number {
+  return availableParallelism();
+}
+
+export function createEmbeddedTransport(options: EmbeddedOptions = {}): Transport {
+  const threads = options.threads ?? defaultThreadCount();
+  const pool = new Piscina({ filename: WORKER_FILE, minThreads: threads, maxThreads: threads, idleTimeout: 60_000 });
+  let commit: CommitOutcome | null = null;
+  const inFlight = new Set<Promise<void>>();
+  let closing = false;
+  let fatal: unknown = null;
+
+  const crashed = (chunk: ChunkTaskPayload, error: unknown): ChunkOutcomePayload => ({
+    sweep_id: chunk.sweep_id,
+    chunk_index: chunk.chunk_index,
+    worker_host: hostname(),
+    points: chunk.points.map((p) => ({
+      point_index: p.point_index,
+      point_id: p.point_id,
+      outcome: { kind: 'infrastructure', reason: `worker thread failed: ${error instanceof Error ? error.message : String(error)}`.slice(0, 2000) },
+    })),
+  });
+
+  const runOne = async (chunk: ChunkTaskPayload): Promise<void> => {
+    let outcome: ChunkOutcomePayload;
+    try {
+      const buffer = (await pool.run(chunk)) as ArrayBuffer | Uint8Array;
+      outcome = chunkOutcomeSchema.parse(JSON.parse(decoder.decode(buffer)));
+    } catch (error) {
+      if (closing) return; // abandoned on an immediate close: no result, so resume reruns it
+      outcome = crashed(chunk, error);
+    }
+    if (commit === null) throw new Error('embedded transport: onOutcome was not registered');
+    try {
+      await commit(outcome);
+    } catch (error) {
+      fatal ??= error; // the store failed: stop taking work and report it from close()
+      closing = true;
+    }
+  };
+
+  return {
+    description: `embedded, ${threads} thread${threads === 1 ? '' : 's'}`,
+    window: 2 * threads,
+    onOutcome(fn) {
+      commit = fn;
+    },
+    async submit(chunk) {
+      if (fatal !== null) throw fatal;
+      const p: Promise<void> = runOne(chunk).finally(() => inFlight.delete(p));
+      inFlight.add(p);
+    },
+    pending: () => inFlight.size,
+    async close(mode) {
+      if (mode === 'immediate') {
+        closing = true;
+        await pool.destroy();
+        await Promise.allSettled([...inFlight]);
+        if (fatal !== null) throw fatal;
+        return;
+      }
+      await Promise.all([...inFlight]);
+      await pool.destroy();
+      if (fatal !== null) throw fatal;
+    },
+  };
+}
