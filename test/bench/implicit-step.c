@@ -78,12 +78,12 @@ static grid_t make_log_grid(double r_in, double r_out, int n) {
 /* tridiagonal.ts: solveTridiagonal */
 static void solve_tridiagonal(const double *lower, const double *diag, const double *upper, const double *rhs,
                               double *out, double *scratch, int n) {
-  double beta = diag[0];
-  out[0] = rhs[0] / beta;
+  double inv = 1 / diag[0];
+  out[0] = rhs[0] * inv;
   for (int i = 1; i < n; i++) {
-    scratch[i] = upper[i - 1] / beta;
-    beta = diag[i] - lower[i] * scratch[i];
-    out[i] = (rhs[i] - lower[i] * out[i - 1]) / beta;
+    scratch[i] = upper[i - 1] * inv;
+    inv = 1 / (diag[i] - lower[i] * scratch[i]);
+    out[i] = (rhs[i] - lower[i] * out[i - 1]) * inv;
   }
   for (int i = n - 2; i >= 0; i--) out[i] -= scratch[i + 1] * out[i + 1];
 }
@@ -113,19 +113,27 @@ __attribute__((noinline)) static flows_t viscous_step(const grid_t *grid, const 
   }
   const double explicit_outer = -w_out * x_prev;
 
+  double c_prev = 0;
+  double c_cur = nu_implicit[0] * sqrt_centers[0];
+  double w_below = w_in;
+  double flow_below = rhs[0];
   for (int i = 0; i < n; i++) {
-    const double c = nu_implicit[i] * sqrt_centers[i];
-    const double w_below = i == 0 ? w_in : w[i];
-    const double w_above = i == n - 1 ? w_out : w[i + 1];
-    lower[i] = i == 0 ? 0 : -implicit * w[i] * nu_implicit[i - 1] * sqrt_centers[i - 1];
-    upper[i] = i == n - 1 ? 0 : -implicit * w[i + 1] * nu_implicit[i + 1] * sqrt_centers[i + 1];
-    diag[i] = area[i] + implicit * (w_below + w_above) * c;
-    const double flow_above = i == n - 1 ? explicit_outer : rhs[i + 1];
-    double b = area[i] * sigma[i] + explicit * (flow_above - rhs[i]);
+    const int last = i == n - 1;
+    const double c_next = last ? 0 : nu_implicit[i + 1] * sqrt_centers[i + 1];
+    const double w_above = last ? w_out : w[i + 1];
+    const double flow_above = last ? explicit_outer : rhs[i + 1];
+    lower[i] = -implicit * w_below * c_prev;
+    upper[i] = -implicit * w_above * c_next;
+    diag[i] = area[i] + implicit * (w_below + w_above) * c_cur;
+    double b = area[i] * sigma[i] + explicit * (flow_above - flow_below);
     if (mass_source != NULL) b += dt * mass_source[i];
     if (i == 0 && inner.has_flow) b -= dt * inner.flow;
-    if (i == n - 1 && outer.has_flow) b += dt * outer.flow;
+    if (last && outer.has_flow) b += dt * outer.flow;
     rhs[i] = b;
+    c_prev = c_cur;
+    c_cur = c_next;
+    w_below = w_above;
+    flow_below = flow_above;
   }
   solve_tridiagonal(lower, diag, upper, rhs, sigma_out, scratch, n);
 

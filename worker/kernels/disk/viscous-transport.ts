@@ -96,19 +96,29 @@ export function viscousStep(input: TransportStepInput, ws: TransportWorkspace, s
   }
   const explicitOuter = -wOut * xPrev; // inward flow through R_out from the zero-torque point: −w_n X_{n-1}
 
+  // Rows, with the neighbours' c = ν√R, edge weights and explicit flows carried in locals: each array element
+  // is read once per step (typed-array loads dominate this loop's cost in V8).
+  let cPrev = 0;
+  let cCur = nuImplicit[0] * sqrtCenters[0];
+  let wBelow = wIn;
+  let flowBelow = rhs[0];
   for (let i = 0; i < n; i++) {
-    const c = nuImplicit[i] * sqrtCenters[i];
-    const wBelow = i === 0 ? wIn : w[i];
-    const wAbove = i === n - 1 ? wOut : w[i + 1];
-    lower[i] = i === 0 ? 0 : -implicit * w[i] * nuImplicit[i - 1] * sqrtCenters[i - 1];
-    upper[i] = i === n - 1 ? 0 : -implicit * w[i + 1] * nuImplicit[i + 1] * sqrtCenters[i + 1];
-    diag[i] = area[i] + implicit * (wBelow + wAbove) * c;
-    const flowAbove = i === n - 1 ? explicitOuter : rhs[i + 1];
-    let b = area[i] * sigma[i] + explicit * (flowAbove - rhs[i]);
+    const last = i === n - 1;
+    const cNext = last ? 0 : nuImplicit[i + 1] * sqrtCenters[i + 1];
+    const wAbove = last ? wOut : w[i + 1];
+    const flowAbove = last ? explicitOuter : rhs[i + 1];
+    lower[i] = -implicit * wBelow * cPrev;
+    upper[i] = -implicit * wAbove * cNext;
+    diag[i] = area[i] + implicit * (wBelow + wAbove) * cCur;
+    let b = area[i] * sigma[i] + explicit * (flowAbove - flowBelow);
     if (massSource !== null) b += dt * massSource[i];
     if (i === 0 && inner !== null) b -= dt * inner;
-    if (i === n - 1 && outer !== null) b += dt * outer;
+    if (last && outer !== null) b += dt * outer;
     rhs[i] = b;
+    cPrev = cCur;
+    cCur = cNext;
+    wBelow = wAbove;
+    flowBelow = flowAbove;
   }
   solveTridiagonal(lower, diag, upper, rhs, sigmaOut, scratch, n);
 
