@@ -16,6 +16,8 @@ export const K_BOLTZMANN_CGS = 1.380649e-16;
 export const M_ELECTRON_CGS = 9.1093837015e-28;
 /** Planck constant, erg s (CODATA 2018, exact since the 2019 SI). */
 export const H_PLANCK_CGS = 6.62607015e-27;
+/** Electron volt, erg (CODATA 2018, exact since the 2019 SI: 1.602176634e-19 J). */
+export const ELECTRON_VOLT_CGS = 1.602176634e-12;
 /** Stefan–Boltzmann constant, erg cm^-2 s^-1 K^-4 (CODATA 2018). */
 export const SIGMA_SB_CGS = 5.670374419e-5;
 /** Atomic mass constant u, g (CODATA 2018). */

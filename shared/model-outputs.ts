@@ -45,6 +45,12 @@ export const CHECKPOINT_OUTPUTS = [
   cp('r68_au', 'AU', 'radius enclosing 68 % of the disk mass', { nullable: true }),
   cp('r90_au', 'AU', 'radius enclosing 90 % of the disk mass', { nullable: true }),
   cp('q_min', '1', 'smallest Toomre Q over the disk', { nullable: true }),
+  cp('n_dead_bands', '1', 'number of radial bands whose midplane is MRI-dead (Sigma_a < Sigma); 0 = no dead zone'),
+  cp('r_dead_in_au', 'AU', 'inner edge of the outermost dead band, to one cell (null without a dead zone)', { nullable: true }),
+  cp('r_dead_out_au', 'AU', 'outer edge of the outermost dead band, to one cell (null without a dead zone)', { nullable: true }),
+  cp('m_dead_msun', 'M_sun', 'mass in the dead parts of the columns, sum of (Sigma - Sigma_a) over the disk'),
+  cp('sigma_active_1au_g_cm2', 'g cm^-2', 'MRI-active column Sigma_a (both faces) in the cell holding 1 AU (null off the grid)', { nullable: true }),
+  cp('active_share_1au', '1', 'share of the accretion flow at 1 AU carried by the active layers: alpha_active Sigma_a / (alpha_eff Sigma), alpha_eff with the dead-zone and GI parts (null for an empty cell)', { nullable: true }),
 ] as const;
 
 export const SCALAR_OUTPUTS = [
@@ -69,6 +75,9 @@ export const SCALAR_OUTPUTS = [
   sc('j_removed_g_cm2_s', 'g cm^2 s^-1', 'angular momentum removed from the star by torques and winds'),
   sc('mass_budget_rel_err', '1', 'relative closure error of the disk mass budget'),
   sc('j_budget_rel_err', '1', 'relative closure error of the disk angular-momentum budget'),
+  sc('n_outbursts', '1', 'accretion outbursts: runs of steps with Mdot_* above 10x its mean over the preceding 1e4 yr'),
+  sc('m_outbursts_msun', 'M_sun', 'mass the star accreted during outbursts'),
+  sc('t_first_outburst_myr', 'Myr', 'start of the first outburst (null if none)', { nullable: true }),
 ] as const;
 
 export const OUTPUTS: readonly OutputDescriptor[] = [...CHECKPOINT_OUTPUTS, ...SCALAR_OUTPUTS];

@@ -118,16 +118,127 @@ export const PARAMS = {
     description: 'Residual alpha in the dead (MRI-inactive) part of the column; must not exceed alpha_active.',
   }),
   active_layer: choice({
-    choices: ['uniform', 'fixed_column'],
+    choices: ['uniform', 'fixed_column', 'ionization'],
     default: 'uniform',
     description:
       'Which MRI-active column Sigma_a the transport uses: "uniform" = the whole column is active; ' +
-      '"fixed_column" = an active layer of sigma_active_face_g_cm2 on each face (Gammie 1996).',
+      '"fixed_column" = an active layer of sigma_active_face_g_cm2 on each face (Gammie 1996); ' +
+      '"ionization" = where X-rays, cosmic rays, radionuclides and FUV photons ionize the gas enough for the MRI ' +
+      '(grain-free chemistry: dust would shrink the active layers; see `disksweep probe --help`).',
   }),
   sigma_active_face_g_cm2: num({
     unit: 'g cm^-2', default: 100, min: 0, max: 1e5,
     description: 'active_layer=fixed_column: active column per face; Sigma_a = 2x this.',
     source: 'Gammie 1996 used about 100 g cm^-2 (cosmic-ray penetration depth)',
+  }),
+  lx_erg_s: num({
+    unit: 'erg s^-1', default: 1e30, min: 0, max: 1e33,
+    description:
+      'active_layer=ionization: stellar X-ray luminosity (thermal 5 keV spectrum); ionization from the Bai & Goodman ' +
+      '(2009) fit to Igea & Glassgold (1999), proportional to L_X and to (r/AU)^-2.2, from both faces. 0 = no X-rays.',
+    source: 'common practice: young solar-mass stars have L_X ~ 1e29-1e31 erg/s (Preibisch et al. 2005; from memory)',
+  }),
+  zeta_cr_s: num({
+    unit: 's^-1', default: 1e-17, min: 0, max: 1e-13,
+    description:
+      'active_layer=ionization: interstellar cosmic-ray ionization rate per H2; each face gives half of it, ' +
+      'attenuated as exp(-Sigma_face/96 g cm^-2) (Umebayashi & Nakano 1981). Lower it where stellar winds exclude cosmic rays.',
+    source: 'Umebayashi & Nakano 1981',
+  }),
+  zeta_al26_s: num({
+    unit: 's^-1', default: 7.6e-19, min: 0, max: 1e-15,
+    description:
+      'active_layer=ionization: ionization rate per H2 by 26Al at t = 0, decaying with the 1.03 Myr mean life ' +
+      '(Umebayashi & Nakano 2009). 0 = no 26Al.',
+    source: 'Umebayashi & Nakano 2009 (from memory)',
+  }),
+  zeta_k40_s: num({
+    unit: 's^-1', default: 1.1e-22, min: 0, max: 1e-18,
+    description: 'active_layer=ionization: ionization rate per H2 by long-lived 40K, constant (Umebayashi & Nakano 2009).',
+    source: 'Umebayashi & Nakano 2009 (from memory)',
+  }),
+  sigma_fuv_face_g_cm2: num({
+    unit: 'g cm^-2', default: 0.03, min: 0, max: 10,
+    description:
+      'active_layer=ionization: column of the FUV-ionized surface layer on each face, where far-ultraviolet photons ' +
+      'from the star or nearby massive stars ionize carbon and sulphur (Perez-Becker & Chiang 2011). 0 = no layer.',
+    source: 'Perez-Becker & Chiang 2011: 0.01-0.1 g cm^-2 (from memory)',
+  }),
+  x_e_fuv: num({
+    unit: '1', default: 1e-5, min: 1e-12, max: 1e-2, logScale: true,
+    description: 'active_layer=ionization: electron fraction n_e/n_H2 inside the FUV layer.',
+    source: 'Perez-Becker & Chiang 2011: 1e-5 to 1e-4 (from memory); the lower end',
+  }),
+  ion_chemistry: choice({
+    choices: ['molecular', 'metals'],
+    default: 'molecular',
+    description:
+      'active_layer=ionization: recombination chemistry (grain-free). "molecular" = molecular ions with dissociative ' +
+      'recombination 3e-6 T^-1/2 cm^3/s; "metals" = plus metal atoms of abundance x_metal with charge transfer and ' +
+      'radiative recombination (Oppenheimer & Dalgarno 1974).',
+  }),
+  x_metal: num({
+    unit: '1', default: 1e-8, min: 0, max: 1e-4,
+    description: 'ion_chemistry=metals: gas-phase metal abundance per H2 (Mg-like atoms; most metals sit in grains).',
+    source: 'demo choice: solar Mg (8e-5 per H2, Asplund et al. 2009) depleted about 1e4-fold',
+  }),
+  thermal_ionization: choice({
+    choices: ['threshold', 'saha', 'none'],
+    default: 'threshold',
+    description:
+      'active_layer=ionization: how hot gas becomes active. "threshold" = the whole column is active above t_mri_k ' +
+      '(blended over +/- t_mri_halfwidth_k so alpha does not jump); "saha" = potassium and sodium ionized by the Saha ' +
+      'equation join the chemistry by charge neutrality; "none" = no thermal ionization.',
+  }),
+  t_mri_k: num({
+    unit: 'K', default: 1000, min: 300, max: 3000,
+    description: 'thermal_ionization=threshold: temperature above which the whole column is MRI-active.',
+    source: 'common practice: alkali metals ionize thermally near 1000 K (Umebayashi 1983; Gammie 1996)',
+  }),
+  t_mri_halfwidth_k: num({
+    unit: 'K', default: 25, min: 0, max: 500,
+    description: 'thermal_ionization=threshold: half-width of the smooth blend around t_mri_k (0 = a step).',
+  }),
+  mri_criterion: choice({
+    choices: ['reynolds', 'elsasser'],
+    default: 'reynolds',
+    description:
+      'active_layer=ionization: where gas counts as active. "reynolds" = magnetic Reynolds number c_s H/eta above ' +
+      'reynolds_crit; "elsasser" = Ohmic Elsasser number v_A^2/(eta Omega) above elsasser_crit, with the field ' +
+      'uniform in height at midplane plasma beta_midplane. eta = 234 T^1/2/x_e cm^2/s.',
+  }),
+  reynolds_crit: num({
+    unit: '1', default: 100, min: 1e-6, max: 1e12, logScale: true,
+    description: 'mri_criterion=reynolds: critical magnetic Reynolds number (Gammie 1996 used about 1).',
+    source: 'Fleming, Stone & Hawley 2000: with a net vertical field MRI turbulence survives down to Re ~ 100 (from memory)',
+  }),
+  elsasser_crit: num({
+    unit: '1', default: 1, min: 1e-6, max: 1e6, logScale: true,
+    description: 'mri_criterion=elsasser: critical Ohmic Elsasser number.',
+    source: 'common practice: Lambda ~ 1 (Turner, Sano & Dziourkevitch 2007)',
+  }),
+  beta_midplane: num({
+    unit: '1', default: 1e4, min: 1, max: 1e12, logScale: true,
+    description: 'mri_criterion=elsasser: plasma beta 8 pi P/B^2 at the midplane (field uniform in height).',
+    source: 'demo choice',
+  }),
+  n_z: num({
+    unit: '1', default: 32, min: 4, max: 4096, integer: true,
+    description:
+      'active_layer=ionization: heights sampled per face, logarithmic in column from 1e-4 g cm^-2 to the midplane; ' +
+      'the active-layer boundary between them is found by root-finding.',
+  }),
+  sigma_ion_floor_g_cm2: num({
+    unit: 'g cm^-2', default: 0.05, min: 0, max: 100,
+    description: 'active_layer=ionization: columns at or below this skip the ionization kernel and count as active.',
+    source: 'demo choice: thinner than the FUV layers of both faces together at the default (2 x 0.03)',
+  }),
+  ion_refresh_tol: num({
+    unit: '1', default: 0.02, min: 0, max: 1,
+    description:
+      'active_layer=ionization: a cell re-runs the ionization kernel when its Sigma or T changed by more than this ' +
+      '(relative) since its last evaluation, all cells when M_* or the radionuclide rate did; 0 = every time.',
+    source: '`npm run bench`: at 0.02 the checkpoint outputs stay within 1 % of re-evaluating every time',
   }),
   gi_transport: choice({
     choices: ['on', 'off'],
@@ -248,7 +359,8 @@ function inRange(p: NumberParam | ListParam, v: number): boolean {
 /** A received value as the user would recognise it (JSON would print Infinity and NaN as null). */
 const shown = (v: unknown): string => (typeof v === 'number' ? String(v) : JSON.stringify(v) ?? String(v));
 
-function numberSchema(p: NumberParam) {
+/** The zod schema of one number descriptor (range, integer, default), also used for inputs outside the table. */
+export function numberParamSchema(p: NumberParam) {
   return z
     .number({ error: (iss) => `expected a number, ${allowedText(p)} (got ${shown(iss.input)})` })
     .superRefine((v, ctx) => {
@@ -284,7 +396,7 @@ function choiceSchema(p: ChoiceParam) {
 }
 
 type SchemaFor<P> = P extends NumberParam
-  ? ReturnType<typeof numberSchema>
+  ? ReturnType<typeof numberParamSchema>
   : P extends ListParam
     ? ReturnType<typeof listSchema>
     : ReturnType<typeof choiceSchema>;
@@ -292,7 +404,7 @@ type SchemaFor<P> = P extends NumberParam
 function schemaFor<P extends ParamDescriptor>(p: P): SchemaFor<P> {
   switch (p.kind) {
     case 'number':
-      return numberSchema(p) as SchemaFor<P>;
+      return numberParamSchema(p) as SchemaFor<P>;
     case 'list':
       return listSchema(p) as SchemaFor<P>;
     case 'choice':

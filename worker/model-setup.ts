@@ -6,12 +6,16 @@
 import { DisksweepError } from '../shared/errors.js';
 import type { ModelParams } from '../shared/model-params.js';
 import { auToCm, daysToS, lsunToErgS, msunToG, myrToS, rsunToCm, yrToS } from '../shared/units.js';
-import { fixedColumnActiveLayer, uniformActiveLayer } from './kernels/disk/active-layer.js';
+import { fixedColumnActiveLayer, uniformActiveLayer, type ActiveColumn } from './kernels/disk/active-layer.js';
 import type { EvolveSetup, InfallSetup } from './kernels/disk/evolve.js';
 import { makeLogGrid, type DiskGrid } from './kernels/disk/grid.js';
 import { centrifugalRadius, shuInfallRate } from './kernels/disk/infall.js';
 import { constantOpacity } from './kernels/disk/opacity.js';
 import { SOUND_SPEED2_PER_K, irradiationTemperature4 } from './kernels/disk/thermal-structure.js';
+import { ionizationActiveLayer, type IonizationLayerOptions } from './kernels/ionization/ionization-active-layer.js';
+import { AL26_MEAN_LIFE_MYR } from './kernels/ionization/radionuclide-rate.js';
+import { ALKALI_METALS } from './kernels/ionization/saha.js';
+import { XRAY_FIT_5KEV, prepareXrayFit } from './kernels/ionization/xray-rate.js';
 
 /** Window over which `mdot_star_avg_msun_yr` averages the accretion rate, s. */
 export const MDOT_AVERAGE_WINDOW_S = yrToS(1e4);
@@ -68,6 +72,49 @@ export function derivedConstraintProblems(p: ModelParams): string[] {
   ];
 }
 
+/**
+ * The ionization kernel's options from the parameters (cgs; the user-facing units of these parameters are
+ * already cgs, except the ²⁶Al mean life). Shared by the model and `disksweep probe`, so both evaluate the
+ * same physics.
+ */
+export function ionizationOptionsFromParams(p: ModelParams, nCells: number): IonizationLayerOptions {
+  return {
+    nCells,
+    sources: {
+      lxErgS: p.lx_erg_s,
+      xrayFit: prepareXrayFit(XRAY_FIT_5KEV),
+      zetaCr: p.zeta_cr_s,
+      fuvColumn: p.sigma_fuv_face_g_cm2,
+      fuvXe: p.x_e_fuv,
+    },
+    radionuclides: { zetaAl26: p.zeta_al26_s, zetaK40: p.zeta_k40_s, meanLife: myrToS(AL26_MEAN_LIFE_MYR) },
+    physics: {
+      chemistry: p.ion_chemistry === 'metals' ? { kind: 'metals', xMetal: p.x_metal } : { kind: 'molecular' },
+      alkalis: p.thermal_ionization === 'saha' ? ALKALI_METALS : null,
+      criterion:
+        p.mri_criterion === 'elsasser'
+          ? { kind: 'elsasser', threshold: p.elsasser_crit, betaMidplane: p.beta_midplane }
+          : { kind: 'reynolds', threshold: p.reynolds_crit },
+    },
+    thermal:
+      p.thermal_ionization === 'threshold' ? { kind: 'threshold', tMri: p.t_mri_k, halfWidth: p.t_mri_halfwidth_k } : { kind: 'none' },
+    nz: p.n_z,
+    sigmaFloor: p.sigma_ion_floor_g_cm2,
+    refreshTolerance: p.ion_refresh_tol,
+  };
+}
+
+function activeColumnFromParams(p: ModelParams, nCells: number): ActiveColumn {
+  switch (p.active_layer) {
+    case 'fixed_column':
+      return fixedColumnActiveLayer.create({ sigmaActiveFace: p.sigma_active_face_g_cm2 });
+    case 'ionization':
+      return ionizationActiveLayer.create(ionizationOptionsFromParams(p, nCells));
+    default:
+      return uniformActiveLayer.create({});
+  }
+}
+
 export function setupModel(p: ModelParams): ModelSetup {
   const problems = derivedConstraintProblems(p);
   if (problems.length > 0) {
@@ -82,10 +129,7 @@ export function setupModel(p: ModelParams): ModelSetup {
   const luminosity = lsunToErgS(p.l_star_lsun);
   const floor4 = p.t_floor_k ** 4;
   const baseTemperature4 = grid.centers.map((r) => irradiationTemperature4(r, luminosity) + floor4);
-  const activeColumn =
-    p.active_layer === 'fixed_column'
-      ? fixedColumnActiveLayer.create({ sigmaActiveFace: p.sigma_active_face_g_cm2 })
-      : uniformActiveLayer.create({});
+  const activeColumn = activeColumnFromParams(p, grid.n);
 
   const tEnd = myrToS(p.t_end_myr);
   const checkpointTimes = p.checkpoints_myr.map(myrToS);

@@ -12,16 +12,22 @@ import {
   type ModelStatus,
   type ScalarRecord,
 } from '../shared/model-result.js';
+import { AU_CGS, G_CGS } from '../shared/constants.js';
 import { cmToAu, gToMsun, gsToMsunYr, sToMyr } from '../shared/units.js';
 import { massRadii } from './kernels/disk/disk-diagnostics.js';
 import { angularMomentumRemoved, budgetErrors, evolveDisk, type DiskState } from './kernels/disk/evolve.js';
 import type { DiskGrid } from './kernels/disk/grid.js';
-import { setupModel } from './model-setup.js';
+import { SOUND_SPEED2_PER_K } from './kernels/disk/thermal-structure.js';
+import { deadZoneSummary } from './kernels/ionization/dead-zone.js';
+import { MDOT_AVERAGE_WINDOW_S, setupModel } from './model-setup.js';
+import { OutburstTracker } from './outburst-tracker.js';
 
 /** A budget that does not close to this is a bug or a broken step, not round-off. */
 export const BUDGET_TOLERANCE = 1e-8;
 /** Above this disk-to-star mass ratio the model's Keplerian, non-self-gravitating picture is questionable. */
 export const MASSIVE_DISK_RATIO = 0.3;
+/** An accretion outburst: Ṁ_* above this many times its mean over the preceding 1e4 yr. */
+export const OUTBURST_FACTOR = 10;
 
 const finiteOrNull = (v: number): number | null => (Number.isFinite(v) ? v : null);
 const massShare = (s: DiskState): number => s.mStar / (s.mStar + s.mDisk);
@@ -46,9 +52,12 @@ export function runValidatedModel(p: ModelParams): ModelResult {
   let qMinRun = Infinity;
   let maxRatio = 0;
   let fragmentation = false;
+  const outbursts = new OutburstTracker(MDOT_AVERAGE_WINDOW_S, OUTBURST_FACTOR);
+  const cell1au = cellHolding(evolve.grid, AU_CGS);
 
   const outcome = evolveDisk(evolve, {
     onStep(s) {
+      outbursts.observe(s.t, massToStar(s), s.mdotStar);
       if (s.transport.qMin < qMinRun) qMinRun = s.transport.qMin;
       if (s.transport.fragmenting) fragmentation = true;
       const ratio = s.mDisk / s.mStar;
@@ -59,7 +68,10 @@ export function runValidatedModel(p: ModelParams): ModelResult {
     onEvent(s) {
       if (averageStartTimes.includes(s.t)) averageStartMass.set(s.t, massToStar(s));
       const k = checkpointTimes.indexOf(s.t);
-      if (k >= 0) checkpoints.push(checkpointRecord(evolve.grid, s, averageStartTimes[k], averageStartMass.get(averageStartTimes[k]) ?? 0));
+      if (k >= 0) {
+        const avgStart = averageStartTimes[k];
+        checkpoints.push(checkpointRecord(evolve.grid, s, avgStart, averageStartMass.get(avgStart) ?? 0, cell1au, p.alpha_active));
+      }
       if (seriesTimes.includes(s.t)) {
         seriesRows.push([sToMyr(s.t), gToMsun(s.mStar), gToMsun(s.mDisk), gsToMsunYr(s.mdotStar), massShare(s), spinShare(s)]);
       }
@@ -76,6 +88,7 @@ export function runValidatedModel(p: ModelParams): ModelResult {
   }
   const b = s.budget;
   const split = tSplit as number | null;
+  const bursts = outbursts.result();
   const scalars: ScalarRecord = {
     t_infall_end_myr: tInfallEnd === null ? null : sToMyr(tInfallEnd),
     t_solar_split_myr: split === null ? null : sToMyr(split),
@@ -98,6 +111,9 @@ export function runValidatedModel(p: ModelParams): ModelResult {
     j_removed_g_cm2_s: angularMomentumRemoved(s),
     mass_budget_rel_err: errors.mass,
     j_budget_rel_err: errors.angularMomentum,
+    n_outbursts: bursts.count,
+    m_outbursts_msun: gToMsun(bursts.mass),
+    t_first_outburst_myr: bursts.firstStart === null ? null : sToMyr(bursts.firstStart),
   };
   return {
     model_version: MODEL_VERSION,
@@ -110,9 +126,35 @@ export function runValidatedModel(p: ModelParams): ModelResult {
   };
 }
 
-function checkpointRecord(grid: DiskGrid, s: DiskState, averageStart: number, massAtAverageStart: number): CheckpointRecord {
+/** Index of the cell whose edges enclose radius r (cm), or -1 off the grid. */
+function cellHolding(grid: DiskGrid, r: number): number {
+  for (let i = 0; i < grid.n; i++) if (grid.edges[i] <= r && r < grid.edges[i + 1]) return i;
+  return -1;
+}
+
+/**
+ * Share of the local accretion flow carried by the active layers in cell i: in a steady disk Ṁ = 3πνΣ, and
+ * νΣ splits into α_active Σ_a (active layers) + the rest (dead part, α_GI), all with the same c_s²/Ω; so the
+ * share is α_active Σ_a / (α_eff Σ), with α_eff = νΩ/c_s² the α the transport used.
+ */
+function activeShare(grid: DiskGrid, s: DiskState, i: number, alphaActive: number): number | null {
+  if (i < 0 || !(s.sigma[i] > 0)) return null;
+  const omega = Math.sqrt((G_CGS * s.mStar) / grid.centers[i] ** 3);
+  const alphaEff = (s.nu[i] * omega) / (SOUND_SPEED2_PER_K * s.temperature[i]);
+  return Math.min(1, (alphaActive * s.sigmaActive[i]) / (alphaEff * s.sigma[i]));
+}
+
+function checkpointRecord(
+  grid: DiskGrid,
+  s: DiskState,
+  averageStart: number,
+  massAtAverageStart: number,
+  cell1au: number,
+  alphaActive: number,
+): CheckpointRecord {
   const [r50, r68, r90] = massRadii(grid, s.sigma, [0.5, 0.68, 0.9]);
   const window = s.t - averageStart;
+  const dead = deadZoneSummary(grid, s.sigma, s.sigmaActive);
   return {
     t_myr: sToMyr(s.t),
     m_star_msun: gToMsun(s.mStar),
@@ -129,5 +171,11 @@ function checkpointRecord(grid: DiskGrid, s: DiskState, averageStart: number, ma
     r68_au: finiteOrNull(cmToAu(r68)),
     r90_au: finiteOrNull(cmToAu(r90)),
     q_min: finiteOrNull(s.transport.qMin),
+    n_dead_bands: dead.bands,
+    r_dead_in_au: finiteOrNull(cmToAu(dead.innerEdge)),
+    r_dead_out_au: finiteOrNull(cmToAu(dead.outerEdge)),
+    m_dead_msun: gToMsun(dead.deadMass),
+    sigma_active_1au_g_cm2: cell1au < 0 ? null : s.sigmaActive[cell1au],
+    active_share_1au: activeShare(grid, s, cell1au, alphaActive),
   };
 }

@@ -63,6 +63,21 @@ export function formatModelReport(p: ModelParams, r: ModelResult): string {
       `(removed from the star ${num(s.j_removed_g_cm2_s)}), through R_out ${num(s.j_lost_g_cm2_s)}, ` +
       `star growth ${num(s.j_rescale_g_cm2_s)}; closure error ${num(s.j_budget_rel_err)}`,
   );
+  const last = r.checkpoints.at(-1);
+  if (last !== undefined) {
+    out.push(
+      `dead zone at ${num(last.t_myr)} Myr: ` +
+        (last.n_dead_bands === 0
+          ? 'none'
+          : `${num(last.r_dead_in_au)}-${num(last.r_dead_out_au)} AU (outermost of ${last.n_dead_bands} band${last.n_dead_bands === 1 ? '' : 's'}), ` +
+            `dead mass ${num(last.m_dead_msun)} Msun`) +
+        `; Sigma_a at 1 AU ${num(last.sigma_active_1au_g_cm2)} g cm^-2, active layers carry ${num(last.active_share_1au)} of the flow there`,
+    );
+  }
+  out.push(
+    `accretion outbursts (Mdot_* > 10x its 1e4-yr mean): ${num(s.n_outbursts)}` +
+      (s.t_first_outburst_myr === null ? '' : `, first at ${num(s.t_first_outburst_myr)} Myr, ${num(s.m_outbursts_msun)} Msun accreted in them`),
+  );
   const flags: string[] = [];
   if (s.flag_massive_disk === true) flags.push(`M_disk/M_* reached ${num(s.max_disk_star_ratio)} (> 0.3: self-gravity matters, the Keplerian 1-D picture is approximate)`);
   if (s.flag_fragmentation === true) flags.push('Q < 1 with fast cooling somewhere: the disk may fragment, which this model does not follow');

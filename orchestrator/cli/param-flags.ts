@@ -12,7 +12,8 @@ function isParamName(name: string): name is ParamName {
   return Object.hasOwn(PARAMS, name);
 }
 
-function parseValue(name: string, p: ParamDescriptor, text: string): { value?: unknown; problem?: string } {
+/** One flag text to a value of the descriptor's kind, or a problem line naming the flag and what it expects. */
+export function parseValue(name: string, p: ParamDescriptor, text: string): { value?: unknown; problem?: string } {
   switch (p.kind) {
     case 'number':
       return NUMBER.test(text) ? { value: Number(text) } : { problem: `${name}: expected a number, ${allowedText(p)} (got "${text}")` };

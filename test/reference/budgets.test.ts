@@ -48,6 +48,12 @@ const CASES: readonly BudgetCase[] = [
     name: 'disk start, fixed star, theta = 1/2 and 2 Picard iterations',
     params: { initial_state: 'disk', star_mass: 'fixed', theta: 0.5, picard_iterations: 2 },
   },
+  // Transport from the ionization kernel (a dead zone; irradiation-heated so the thermal switch stays quiet).
+  { name: 'disk start, growing star, ionization dead zone', params: { initial_state: 'disk', active_layer: 'ionization', kappa_cm2_g: 0 } },
+  {
+    name: 'infall start, growing star, ionization dead zone, no thermal switch',
+    params: { initial_state: 'infall', active_layer: 'ionization', thermal_ionization: 'none' },
+  },
 ];
 
 /** J_disk summed here from Σ with j_i = (G M_* R_i)^{1/2}, the same j the transport books (disk-diagnostics.ts). */

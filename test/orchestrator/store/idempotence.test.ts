@@ -8,6 +8,7 @@ import type { StoredOutcome } from '../../../orchestrator/store/store-types.js';
 import { openStore, type SweepStore } from '../../../orchestrator/store/sweep-store.js';
 import { infrastructureOutcome, manyOutcomes, modelOutcome, modelRun, sweepFixture } from '../../support/store-fixtures.js';
 import { useTempDir } from '../../support/temp-dir.js';
+import { MODEL_VERSION } from '../../../shared/model-version.js';
 
 const tmp = useTempDir();
 
@@ -135,7 +136,7 @@ describe('what resume and status read', () => {
     expect(again.kind).toBe('existing');
     expect(again.sweep.chunkSize).toBe(8); // the stored calibration wins: chunk boundaries never move
     const other = store.registerSweep(sweepFixture({ modelVersion: '9.9.9' }));
-    expect(other).toMatchObject({ kind: 'model-version-mismatch', requestedModelVersion: '9.9.9', sweep: { modelVersion: '0.1.0' } });
+    expect(other).toMatchObject({ kind: 'model-version-mismatch', requestedModelVersion: '9.9.9', sweep: { modelVersion: MODEL_VERSION } });
     expect(store.getSweep(sweepId)?.name).toBe('test-sweep');
     expect(store.getSweep('nope')).toBeUndefined();
     store.registerSweep(sweepFixture({ sweepId: 'a'.repeat(64), name: 'second' }));

@@ -11,9 +11,19 @@ export interface ActiveLayerInput {
   readonly temperature: number;
   /** Radius, cm. */
   readonly radius: number;
+  /** Keplerian angular frequency at the cell, s^-1 (with T it sets the scale height and the density). */
+  readonly omega: number;
+  /** Time since t = 0 (collapse onset, or the given disk), s: what decays (²⁶Al) needs it. */
+  readonly time: number;
+  /** Index of the cell on the grid, so a provider can keep per-cell state from one pass to the next. */
+  readonly index: number;
 }
 
-export type ActiveColumn = (cell: ActiveLayerInput) => number;
+/**
+ * Σ_a of one cell, g cm^-2. A provider that keeps state between calls (a cache) exposes `reset`, which the
+ * integrator calls when a run starts, so that a run stays a pure function of its parameters.
+ */
+export type ActiveColumn = ((cell: ActiveLayerInput) => number) & { readonly reset?: () => void };
 
 export interface ActiveLayerProvider<Options> {
   readonly name: string;

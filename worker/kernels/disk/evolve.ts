@@ -92,6 +92,8 @@ export interface DiskState {
   readonly sigma: Float64Array;
   readonly temperature: Float64Array;
   readonly nu: Float64Array;
+  /** MRI-active column the transport used, g cm^-2 (≤ Σ). */
+  readonly sigmaActive: Float64Array;
   mStar: number;
   mDisk: number;
   jDisk: number;
@@ -159,7 +161,9 @@ export function evolveDisk(setup: EvolveSetup, observer: EvolveObserver = {}): E
   const n = grid.n;
   const sigma = Float64Array.from(setup.sigma0);
   const sigmaNew = new Float64Array(n);
-  const fields = { nu: new Float64Array(n), temperature: new Float64Array(n) };
+  const fields = { nu: new Float64Array(n), temperature: new Float64Array(n), sigmaActive: new Float64Array(n) };
+  // A provider with a per-cell cache starts every run from nothing: a run is a function of its setup alone.
+  transport.activeColumn.reset?.();
   const nuNew = new Float64Array(n);
   const tempScratch = new Float64Array(n);
   const omega = new Float64Array(n);
@@ -172,9 +176,9 @@ export function evolveDisk(setup: EvolveSetup, observer: EvolveObserver = {}): E
   const jSpin0 = spinAngularMomentum(spin.k2, setup.mStar0, spin.rStar, spin.period);
   fillOmega(grid, setup.mStar0, omega);
   const state: DiskState = {
-    t: 0, steps: 0, rejectedSteps: 0, sigma, temperature: fields.temperature, nu: fields.nu,
+    t: 0, steps: 0, rejectedSteps: 0, sigma, temperature: fields.temperature, nu: fields.nu, sigmaActive: fields.sigmaActive,
     mStar: setup.mStar0, mDisk: mDisk0, jDisk: jDisk0, jSpin: jSpin0, mdotStar: 0,
-    transport: computeTransportCoefficients(grid, sigma, omega, transport, fields),
+    transport: computeTransportCoefficients(grid, sigma, omega, transport, fields, 0),
     mDisk0, jDisk0, jSpin0,
     budget: {
       massAccreted: 0, massLost: 0, massInfallDisk: 0, massInfallStar: 0,
@@ -221,7 +225,7 @@ export function evolveDisk(setup: EvolveSetup, observer: EvolveObserver = {}): E
       let flows = viscousStep(input, ws, sigmaNew);
       for (let k = 0; k < setup.picardIterations; k++) {
         tempScratch.set(fields.temperature);
-        computeTransportCoefficients(grid, sigmaNew, omega, transport, { nu: nuNew, temperature: tempScratch });
+        computeTransportCoefficients(grid, sigmaNew, omega, transport, { nu: nuNew, temperature: tempScratch }, t + dtTry);
         flows = viscousStep({ ...input, nuImplicit: nuNew }, ws, sigmaNew);
       }
 
@@ -300,7 +304,7 @@ export function evolveDisk(setup: EvolveSetup, observer: EvolveObserver = {}): E
     }
     if (!accepted) return fail('step_collapse', `no acceptable step after ${MAX_RETRIES} retries at t = ${t.toExponential(4)} s`);
 
-    state.transport = computeTransportCoefficients(grid, sigma, omega, transport, fields);
+    state.transport = computeTransportCoefficients(grid, sigma, omega, transport, fields, state.t);
     observer.onStep?.(state);
     while (next < events.length && events[next] <= state.t) {
       observer.onEvent?.(state);

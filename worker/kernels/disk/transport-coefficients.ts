@@ -32,6 +32,8 @@ export interface TransportPhysics {
 export interface TransportFields {
   readonly nu: Float64Array;
   readonly temperature: Float64Array;
+  /** Σ_a the layered rule used (min(provider, Σ)), g cm^-2, when the caller wants it. */
+  readonly sigmaActive?: Float64Array;
 }
 
 export interface TransportSummary {
@@ -50,16 +52,19 @@ export function computeTransportCoefficients(
   omega: Float64Array,
   physics: TransportPhysics,
   fields: TransportFields,
+  /** Time of the state, s (for providers whose Σ_a depends on it). */
+  time = 0,
 ): TransportSummary {
   const { alphaActive, alphaDead, activeColumn, opacity, gi, baseTemperature4 } = physics;
-  const { nu, temperature } = fields;
+  const { nu, temperature, sigmaActive: sigmaActiveOut } = fields;
   let qMin = Infinity;
   let fragmenting = false;
   for (let i = 0; i < grid.n; i++) {
     const s = sigma[i];
     const om = omega[i];
     let t = temperature[i] > 0 ? temperature[i] : Math.sqrt(Math.sqrt(baseTemperature4[i]));
-    const sigmaActive = Math.min(activeColumn({ sigma: s, temperature: t, radius: grid.centers[i] }), s);
+    const sigmaActive = Math.min(activeColumn({ sigma: s, temperature: t, radius: grid.centers[i], omega: om, time, index: i }), s);
+    if (sigmaActiveOut !== undefined) sigmaActiveOut[i] = sigmaActive;
     const alphaLayer = layeredAlpha(s, sigmaActive, alphaActive, alphaDead);
     let alpha = alphaLayer;
     let kappa = 0;

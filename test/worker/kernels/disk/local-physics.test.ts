@@ -32,7 +32,7 @@ describe('midplane temperature T^4 = A T + C', () => {
 describe('layered transport (Gammie 1996)', () => {
   it('α_eff Σ = α_active Σ_a + α_dead (Σ − Σ_a) where the column exceeds the active layer', () => {
     const sigma = 1000;
-    const sigmaA = fixedColumnActiveLayer.create({ sigmaActiveFace: 100 })({ sigma, temperature: 100, radius: AU_CGS });
+    const sigmaA = fixedColumnActiveLayer.create({ sigmaActiveFace: 100 })({ sigma, temperature: 100, radius: AU_CGS, omega: 2e-7, time: 0, index: 0 });
     expect(sigmaA).toBe(200);
     const alpha = layeredAlpha(sigma, sigmaA, 1e-2, 1e-5);
     expect(alpha * sigma).toBeCloseTo(1e-2 * 200 + 1e-5 * 800, 12);
@@ -41,7 +41,7 @@ describe('layered transport (Gammie 1996)', () => {
   it('a column thinner than the active layer is fully active, also when empty', () => {
     expect(layeredAlpha(50, 200, 1e-2, 0)).toBe(1e-2);
     expect(layeredAlpha(0, 200, 1e-2, 0)).toBe(1e-2);
-    expect(uniformActiveLayer.create({})({ sigma: 5e4, temperature: 10, radius: AU_CGS })).toBe(5e4);
+    expect(uniformActiveLayer.create({})({ sigma: 5e4, temperature: 10, radius: AU_CGS, omega: 2e-7, time: 0, index: 0 })).toBe(5e4);
   });
 });
 

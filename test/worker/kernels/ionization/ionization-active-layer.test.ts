@@ -1,0 +1,143 @@
+/**
+ * The Σ_a providers behind layered transport: one conformance suite for all of them (uniform, fixed_column,
+ * ionization), then what only the ionization provider does: the floor, the thermal threshold blend, and the
+ * refresh cache, which must keep results a function of the inputs.
+ */
+import { describe, expect, it } from 'vitest';
+import { AU_CGS, GM_SUN_CGS } from '../../../../shared/constants.js';
+import { DisksweepError } from '../../../../shared/errors.js';
+import { parseModelParams } from '../../../../shared/model-params.js';
+import { fixedColumnActiveLayer, uniformActiveLayer, type ActiveColumn, type ActiveLayerInput } from '../../../../worker/kernels/disk/active-layer.js';
+import { prepareColumn, solveActiveColumn } from '../../../../worker/kernels/ionization/active-column.js';
+import { createIonizationActiveColumn } from '../../../../worker/kernels/ionization/ionization-active-layer.js';
+import { blendThermal, thermalWeight } from '../../../../worker/kernels/ionization/thermal-activation.js';
+import { ionizationOptionsFromParams } from '../../../../worker/model-setup.js';
+
+const cell = (rAu: number, sigma: number, temperature: number, index = 0, time = 0): ActiveLayerInput => ({
+  sigma, temperature, radius: rAu * AU_CGS, omega: Math.sqrt(GM_SUN_CGS / (rAu * AU_CGS) ** 3), time, index,
+});
+const ionOptions = (extra: Record<string, unknown> = {}) => ionizationOptionsFromParams(parseModelParams({ active_layer: 'ionization', ...extra }), 8);
+const CELLS = [cell(0.1, 5e4, 700, 0), cell(1, 1700, 280, 1), cell(5, 150, 125, 2), cell(30, 3, 50, 3), cell(1, 0, 280, 4), cell(0.05, 1e5, 1500, 5)];
+
+const PROVIDERS: [string, () => ActiveColumn][] = [
+  ['uniform', () => uniformActiveLayer.create({})],
+  ['fixed_column', () => fixedColumnActiveLayer.create({ sigmaActiveFace: 100 })],
+  ['ionization', () => createIonizationActiveColumn(ionOptions())],
+  ['ionization, elsasser + saha', () => createIonizationActiveColumn(ionOptions({ mri_criterion: 'elsasser', thermal_ionization: 'saha' }))],
+];
+
+describe.each(PROVIDERS)('Σ_a provider conformance: %s', (_, make) => {
+  it('gives a finite, non-negative Σ_a; as used, min(Σ_a, Σ) lies in [0, Σ]', () => {
+    const p = make();
+    for (const c of CELLS) {
+      const a = p(c);
+      expect(Number.isFinite(a) && a >= 0).toBe(true);
+      expect(Math.min(a, c.sigma)).toBeLessThanOrEqual(c.sigma);
+    }
+  });
+
+  it('is a function of its inputs: the same calls after reset give the same numbers, in any cell order', () => {
+    const p = make();
+    const first = CELLS.map((c) => p(c));
+    p.reset?.();
+    const again = CELLS.map((c) => p(c));
+    expect(again).toEqual(first);
+    const fresh = make();
+    const reversed = [...CELLS].reverse().map((c) => fresh(c)).reverse();
+    expect(reversed).toEqual(first);
+  });
+});
+
+describe('ionization provider', () => {
+  it('with tolerance 0 returns the kernel\'s Σ_a for the column', () => {
+    const o = ionOptions({ ion_refresh_tol: 0 });
+    const p = createIonizationActiveColumn(o);
+    const c = cell(1, 1700, 280);
+    const direct = solveActiveColumn(prepareColumn(c, { ...o.sources, zetaRadio: 7.6e-19 + 1.1e-22 }, o.physics), o.nz).sigmaActive;
+    expect(p(c)).toBe(direct);
+    expect(direct).toBeGreaterThan(0);
+    expect(direct).toBeLessThan(1700);
+  });
+
+  it('skips columns at or below the floor and counts them active', () => {
+    const p = createIonizationActiveColumn(ionOptions({ sigma_ion_floor_g_cm2: 10 }));
+    expect(p(cell(1, 10, 280))).toBe(10);
+    expect(p.stats.refreshes).toBe(0);
+  });
+
+  it('re-evaluates a cell only when Σ or T moved by more than the tolerance', () => {
+    const p = createIonizationActiveColumn(ionOptions({ ion_refresh_tol: 0.05 }));
+    const a = p(cell(1, 1700, 280));
+    expect(p.stats.refreshes).toBe(1);
+    expect(p(cell(1, 1750, 285))).toBe(a); // 2.9 % and 1.8 %: kept
+    expect(p.stats.refreshes).toBe(1);
+    p(cell(1, 1800, 280)); // 5.9 %: refreshed
+    expect(p.stats.refreshes).toBe(2);
+    p(cell(1, 1800, 300)); // T 7 %: refreshed
+    expect(p.stats.refreshes).toBe(3);
+  });
+
+  it('refreshes every cell when M_* or the radionuclide rate moved by more than the tolerance', () => {
+    const p = createIonizationActiveColumn(ionOptions({ ion_refresh_tol: 0.05 }));
+    p(cell(1, 1700, 280, 0));
+    p(cell(2, 600, 200, 1));
+    expect(p.stats.refreshes).toBe(2);
+    const mean = 1.03 * 3.15576e13;
+    p(cell(1, 1700, 280, 0, 0.01 * mean)); // ζ_R down 1 %: nothing
+    expect(p.stats.refreshes).toBe(2);
+    p(cell(1, 1700, 280, 0, 0.1 * mean)); // ζ_R down 9.5 %: a new generation, both cells refresh
+    p(cell(2, 600, 200, 1, 0.1 * mean));
+    expect(p.stats.globalRefreshes).toBe(2);
+    expect(p.stats.refreshes).toBe(4);
+  });
+
+  it('blends the thermal threshold smoothly over T_MRI ± ΔT and is the whole column above', () => {
+    expect(thermalWeight(974.9, 1000, 25)).toBe(0);
+    expect(thermalWeight(1000, 1000, 25)).toBe(0.5);
+    expect(thermalWeight(1025, 1000, 25)).toBe(1);
+    expect(thermalWeight(999, 1000, 0)).toBe(0);
+    expect(thermalWeight(1000, 1000, 0)).toBe(1);
+    // Continuous and monotone across the ramp, with a vanishing slope at its ends (smoothstep).
+    let previous = 0;
+    for (let t = 975; t <= 1025; t += 0.5) {
+      const w = thermalWeight(t, 1000, 25);
+      expect(w).toBeGreaterThanOrEqual(previous);
+      expect(w - previous).toBeLessThan(0.016);
+      previous = w;
+    }
+    expect(blendThermal(1000, 100, 1)).toBe(1000);
+    expect(blendThermal(1000, 100, 0)).toBe(100);
+    expect(blendThermal(1000, 100, 0.5)).toBe(550);
+    const p = createIonizationActiveColumn(ionOptions());
+    const dense = cell(0.1, 5e4, 1100);
+    expect(p(dense)).toBe(5e4);
+    const none = createIonizationActiveColumn(ionOptions({ thermal_ionization: 'none' }));
+    expect(none(dense)).toBeLessThan(5e4);
+  });
+});
+
+describe('ionization parameters are validated like every other (invalid next to valid)', () => {
+  it.each([
+    [{ zeta_cr_s: -1e-17 }, 'zeta_cr_s'],
+    [{ lx_erg_s: 1e40 }, 'lx_erg_s'],
+    [{ n_z: 2 }, 'n_z'],
+    [{ n_z: 10.5 }, 'n_z'],
+    [{ ion_chemistry: 'grains' }, 'ion_chemistry'],
+    [{ mri_criterion: 'ambipolar' }, 'mri_criterion'],
+    [{ ion_refresh_tol: 2 }, 'ion_refresh_tol'],
+    [{ active_layer: 'ionisation' }, 'active_layer'],
+  ])('%o is refused, naming %s', (bad, name) => {
+    let details: readonly string[] = [];
+    try {
+      parseModelParams(bad);
+    } catch (e) {
+      details = e instanceof DisksweepError ? e.details : [];
+    }
+    expect(details.length).toBe(1);
+    expect(details[0].startsWith(`${name}:`)).toBe(true);
+  });
+
+  it.each([{ zeta_cr_s: 0 }, { lx_erg_s: 0 }, { n_z: 4 }, { ion_chemistry: 'metals', x_metal: 1e-10 }, { ion_refresh_tol: 0 }])('%o is accepted', (good) => {
+    expect(() => parseModelParams({ active_layer: 'ionization', ...good })).not.toThrow();
+  });
+});

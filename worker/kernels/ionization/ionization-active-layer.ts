@@ -1,0 +1,130 @@
+/**
+ * The ionization-based Σ_a provider for layered transport (Gammie 1996): each cell's active column from the
+ * ionization kernel (active-column.ts), with the thermal threshold switch (thermal-activation.ts) on top.
+ *
+ * Cost control, keeping a run a pure function of its parameters:
+ * - Cells below a surface-density floor skip the kernel and count as active (a column that thin is ionized
+ *   through by X-rays and FUV photons at any radius of interest).
+ * - Above T_MRI + ΔT (threshold switch) the whole column is active and the kernel is skipped.
+ * - Otherwise a cell's ionization Σ_a is re-evaluated only when its Σ or T changed by more than a relative
+ *   tolerance since its last evaluation, and every cell is when M_* (read from Ω²R³/G, so the provider needs no
+ *   extra input) or the radionuclide rate changed by more than it since the last such global refresh. L_X is a
+ *   constant of the run. Between refreshes a cell keeps its Σ_a,ion in g cm^-2 (a layer's depth is set by
+ *   the penetration of the rays, not by the total column), or "all of it" if it was fully active.
+ * The cache lives in the provider, `reset` empties it, and the integrator calls `reset` at the start of a run;
+ * the calls come in the same order in every run, so the same parameters give the same numbers, bit for bit.
+ */
+import { G_CGS } from '../../../shared/constants.js';
+import type { ActiveColumn, ActiveLayerInput, ActiveLayerProvider } from '../disk/active-layer.js';
+import { emptyPoint, prepareColumn, solveActiveColumn, type IonizationPhysics, type IonizationSources } from './active-column.js';
+import { radionuclideRate } from './radionuclide-rate.js';
+import { blendThermal, thermalWeight } from './thermal-activation.js';
+
+export interface RadionuclideSetup {
+  /** ²⁶Al rate at t = 0, s^-1. */
+  readonly zetaAl26: number;
+  /** ⁴⁰K rate, s^-1. */
+  readonly zetaK40: number;
+  /** ²⁶Al mean life, s; the decay runs from the run's t = 0 (collapse onset, or the given disk). */
+  readonly meanLife: number;
+}
+
+export type ThermalSwitch =
+  | { readonly kind: 'threshold'; readonly tMri: number; readonly halfWidth: number }
+  | { readonly kind: 'none' };
+
+export interface IonizationLayerOptions {
+  readonly nCells: number;
+  readonly sources: Omit<IonizationSources, 'zetaRadio'>;
+  readonly radionuclides: RadionuclideSetup;
+  readonly physics: IonizationPhysics;
+  readonly thermal: ThermalSwitch;
+  /** Height samples that bracket the boundary. */
+  readonly nz: number;
+  /** Columns at or below this, g cm^-2, count as active without evaluation. */
+  readonly sigmaFloor: number;
+  /** Relative change of Σ, T, M_* or ζ_R that triggers a re-evaluation; 0 = whenever anything changed. */
+  readonly refreshTolerance: number;
+}
+
+/** Work counters of one run, for the benchmark. */
+export interface IonizationLayerStats {
+  calls: number;
+  refreshes: number;
+  evaluations: number;
+  globalRefreshes: number;
+}
+
+export type IonizationActiveColumn = ActiveColumn & { readonly stats: IonizationLayerStats };
+
+const changed = (now: number, then: number, tol: number): boolean => !(Math.abs(now - then) <= tol * Math.abs(then));
+
+export function createIonizationActiveColumn(o: IonizationLayerOptions): IonizationActiveColumn {
+  const n = o.nCells;
+  const lastSigma = new Float64Array(n);
+  const lastTemperature = new Float64Array(n);
+  const lastGeneration = new Int32Array(n);
+  const ionActive = new Float64Array(n);
+  const wasFull = new Uint8Array(n);
+  const scratch = emptyPoint();
+  const tol = o.refreshTolerance;
+  const rn = o.radionuclides;
+  const stats: IonizationLayerStats = { calls: 0, refreshes: 0, evaluations: 0, globalRefreshes: 0 };
+  let generation = 0;
+  let refGm = NaN;
+  let refZetaRadio = NaN;
+
+  const reset = (): void => {
+    lastGeneration.fill(0);
+    generation = 0;
+    refGm = NaN;
+    refZetaRadio = NaN;
+    stats.calls = stats.refreshes = stats.evaluations = stats.globalRefreshes = 0;
+  };
+
+  const column = (cell: ActiveLayerInput): number => {
+    const { sigma, temperature, radius, omega, time, index } = cell;
+    stats.calls++;
+    const gm = omega * omega * radius * radius * radius;
+    const zetaRadio = radionuclideRate(rn.zetaAl26, rn.zetaK40, rn.meanLife, time);
+    if (changed(gm, refGm, tol) || changed(zetaRadio, refZetaRadio, tol)) {
+      refGm = gm;
+      refZetaRadio = zetaRadio;
+      generation++;
+      stats.globalRefreshes++;
+    }
+    if (sigma <= o.sigmaFloor) return sigma;
+    const w = o.thermal.kind === 'threshold' ? thermalWeight(temperature, o.thermal.tMri, o.thermal.halfWidth) : 0;
+    if (w >= 1) return sigma;
+    let ion: number;
+    if (
+      lastGeneration[index] === generation &&
+      !changed(sigma, lastSigma[index], tol) &&
+      !changed(temperature, lastTemperature[index], tol)
+    ) {
+      ion = wasFull[index] === 1 ? sigma : Math.min(ionActive[index], sigma);
+    } else {
+      const ctx = prepareColumn({ sigma, temperature, radius, omega }, { ...o.sources, zetaRadio: refZetaRadio }, o.physics);
+      // The cell's last boundary, if it had one, brackets the new one in two evaluations most of the time.
+      const hint = lastGeneration[index] > 0 && wasFull[index] === 0 && ionActive[index] > 0 ? 0.5 * ionActive[index] : NaN;
+      const r = solveActiveColumn(ctx, o.nz, scratch, hint);
+      stats.refreshes++;
+      stats.evaluations += r.evaluations;
+      lastGeneration[index] = generation;
+      lastSigma[index] = sigma;
+      lastTemperature[index] = temperature;
+      ionActive[index] = r.sigmaActive;
+      wasFull[index] = r.midplaneDead ? 0 : 1;
+      ion = r.sigmaActive;
+    }
+    return blendThermal(sigma, ion, w);
+  };
+  return Object.assign(column, { reset, stats });
+}
+
+/** Σ_a from the ionization kernel: X-rays, cosmic rays, radionuclides, FUV; grain-free chemistry. */
+export const ionizationActiveLayer: ActiveLayerProvider<IonizationLayerOptions> = {
+  name: 'ionization',
+  description: 'active column from the ionization and MRI-activity kernel (grain-free chemistry)',
+  create: createIonizationActiveColumn,
+};

@@ -1,0 +1,74 @@
+/**
+ * Brent's method for a root of f on a bracket [a, b] with f(a) f(b) ≤ 0 (Brent 1973, ch. 4; the "zeroin"
+ * scheme of inverse quadratic interpolation, secant and bisection). The numerical method lives here, apart
+ * from the physics it is used for, and stays within the bracket, so a jump in f (the FUV layer edge) still
+ * converges, to the jump.
+ */
+
+export interface BracketedRoot {
+  readonly x: number;
+  readonly evaluations: number;
+}
+
+/**
+ * Root of f in [a, b], given fa = f(a), fb = f(b) of opposite signs (or one of them zero), to an absolute
+ * tolerance `tol` in x. Returns the end with f = 0 when there is one.
+ */
+export function brentRoot(f: (x: number) => number, a: number, b: number, fa: number, fb: number, tol: number): BracketedRoot {
+  if (fa === 0) return { x: a, evaluations: 0 };
+  if (fb === 0) return { x: b, evaluations: 0 };
+  if ((fa > 0) === (fb > 0)) throw new RangeError(`brentRoot: f(${a}) = ${fa} and f(${b}) = ${fb} do not bracket a root`);
+  let c = a;
+  let fc = fa;
+  let d = b - a;
+  let e = d;
+  let evaluations = 0;
+  for (let iter = 0; iter < 200; iter++) {
+    if ((fb > 0) === (fc > 0)) {
+      c = a;
+      fc = fa;
+      d = b - a;
+      e = d;
+    }
+    if (Math.abs(fc) < Math.abs(fb)) {
+      a = b; b = c; c = a;
+      fa = fb; fb = fc; fc = fa;
+    }
+    const tol1 = 2 * Number.EPSILON * Math.abs(b) + 0.5 * tol;
+    const m = 0.5 * (c - b);
+    if (Math.abs(m) <= tol1 || fb === 0) return { x: b, evaluations };
+    if (Math.abs(e) >= tol1 && Math.abs(fa) > Math.abs(fb)) {
+      // Interpolate: secant when only two points are distinct, inverse quadratic otherwise.
+      const s = fb / fa;
+      let p: number;
+      let q: number;
+      if (a === c) {
+        p = 2 * m * s;
+        q = 1 - s;
+      } else {
+        const qa = fa / fc;
+        const r = fb / fc;
+        p = s * (2 * m * qa * (qa - r) - (b - a) * (r - 1));
+        q = (qa - 1) * (r - 1) * (s - 1);
+      }
+      if (p > 0) q = -q;
+      else p = -p;
+      if (2 * p < Math.min(3 * m * q - Math.abs(tol1 * q), Math.abs(e * q))) {
+        e = d;
+        d = p / q;
+      } else {
+        d = m;
+        e = m;
+      }
+    } else {
+      d = m;
+      e = m;
+    }
+    a = b;
+    fa = fb;
+    b += Math.abs(d) > tol1 ? d : m > 0 ? tol1 : -tol1;
+    fb = f(b);
+    evaluations++;
+  }
+  return { x: b, evaluations };
+}
