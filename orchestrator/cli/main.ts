@@ -10,7 +10,9 @@ import { MODEL_VERSION } from '../../shared/model-version.js';
 import { runValidatedModel } from '../../worker/model.js';
 import { formatModelReport, formatParamList } from './model-report.js';
 import { paramsFromFlags } from './param-flags.js';
+import { probeCommand } from './probe-command.js';
 import { sweepCommands } from './sweep-commands.js';
+import { workCommand } from './work-command.js';
 
 /** Exit code of `disksweep model` when the model ran but ended with a numerical status other than ok. */
 const EXIT_MODEL_NOT_OK = 3;
@@ -64,7 +66,9 @@ function buildProgram(): Command {
     .addHelpText('after', EXIT_CODES_HELP)
     .showHelpAfterError('(run with --help for usage)')
     .exitOverride()
-    .addCommand(modelCommand().exitOverride());
+    .addCommand(modelCommand().exitOverride())
+    .addCommand(probeCommand())
+    .addCommand(workCommand().exitOverride());
   for (const c of sweepCommands()) program.addCommand(c.exitOverride());
   return program;
 }

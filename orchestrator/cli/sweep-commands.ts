@@ -3,11 +3,12 @@
  * validates everything it reads before it writes anything; bad input exits 2, runtime failures 1, an
  * interrupted run 130 (after printing the command that resumes it).
  */
+import { existsSync, statSync } from 'node:fs';
 import { hostname } from 'node:os';
 import { Command, Option } from 'commander';
 import { z } from 'zod';
 import { DisksweepError } from '../../shared/errors.js';
-import { canonicalJson, contentHash } from '../../shared/hashing.js';
+import { contentHash } from '../../shared/hashing.js';
 import { MODEL_VERSION } from '../../shared/model-version.js';
 import { CHECKPOINT_OUTPUTS, SCALAR_OUTPUTS } from '../../shared/model-outputs.js';
 import { PARAM_NAMES } from '../../shared/model-params.js';
@@ -16,8 +17,10 @@ import { openStore, type StoreReader, type SweepRecord, type SweepStore } from '
 import { createEmbeddedTransport, defaultThreadCount } from '../transport/embedded-transport.js';
 import { executeSweep, type ExecuteResult } from '../sweep/execute-sweep.js';
 import { storedOutcomes, chunkCount } from '../sweep/sweep-runner.js';
-import { calibrate, planSweep, type SweepPlan } from '../sweep/sweep-plan.js';
+import { calibrate, planSweep, storedSpecJson, type SweepPlan } from '../sweep/sweep-plan.js';
 import { formatDuration } from './progress.js';
+import { openTransport } from './open-transport.js';
+import { withRedisOptions, type RedisFlags } from './redis-flags.js';
 
 export const EXIT_INTERRUPTED = 130;
 
@@ -69,18 +72,53 @@ function runSummary(plan: SweepPlan, dbFile: string, r: ExecuteResult, reused: n
       `${reused > 0 ? `, reused ${reused} from earlier sweeps` : ''}; ${r.failed} of this run's failed`,
     `database: ${dbFile}`,
   ];
-  if (r.interrupted) lines.push(`interrupted: resume with  disksweep resume --db ${dbFile}${''}`);
-  else lines.push(`next: disksweep status --db ${dbFile}   (counts, failure reasons)`);
+  if (!r.interrupted) lines.push(`next: disksweep status --db ${dbFile}   (counts, failure reasons)`);
   return lines.join('\n');
 }
 
-async function runPlanned(store: SweepStore, plan: SweepPlan, chunkSize: number, dbFile: string, workers: number, retryFailed: boolean, reused: number, json: boolean): Promise<number> {
+/** A path as a shell word (quoted only when it needs to be), for commands we print for copying. */
+const shellWord = (text: string): string => (/^[\w@%+=:,./-]+$/.test(text) ? text : `'${text.replace(/'/g, `'\\''`)}'`);
+
+/**
+ * The command that goes on with an interrupted sweep. It names the sweep when the database holds several:
+ * `resume` without --sweep refuses such a database.
+ */
+export function resumeCommand(store: StoreReader, plan: SweepPlan): string {
+  const several = store.listSweeps().length > 1;
+  return `disksweep resume --db ${shellWord(store.file)}${several ? ` --sweep ${plan.sweepId.slice(0, 12)}` : ''}`;
+}
+
+async function runPlanned(store: SweepStore, plan: SweepPlan, chunkSize: number, dbFile: string, workers: number, retryFailed: boolean, reused: number, json: boolean, flags: RedisFlags & { workers?: string } = {}): Promise<number> {
+  const transport = await openTransport({ flags, workers, store, plan }); // Redis: drains waiting results first
   const hasResult = store.pointIndexesWithResult(plan.sweepId, { retryFailed });
-  const transport = createEmbeddedTransport({ threads: workers });
   process.stderr.write(`running ${plan.spec.name}: ${plan.source.size} points in ${chunkCount(plan.source.size, chunkSize)} chunks of ${chunkSize}, ${transport.description}\n`);
   const r = await executeSweep({ store, plan, chunkSize, hasResult, transport, progressStream: process.stderr, handleSignals: true });
+  // The resume hint goes to stderr: stdout carries the summary (JSON with --json) and may be redirected, and
+  // the person who pressed Ctrl-C must see how to go on.
+  if (r.interrupted) process.stderr.write(`interrupted: resume with  ${resumeCommand(store, plan)}\n`);
   write(json, { sweep_id: plan.sweepId, name: plan.spec.name, db: dbFile, ...r, reused }, runSummary(plan, dbFile, r, reused));
   return r.interrupted ? EXIT_INTERRUPTED : 0;
+}
+
+/**
+ * Run the checks that only read (which sweep, which model version) on a read-only connection before the lock
+ * is taken, so a wrong --sweep, a database without sweeps or another model version exits 2 without writing to
+ * the database (taking the lock writes to it; opening a missing file for writing would create it). An older
+ * schema cannot be opened read-only; it is upgraded by the write open, and the same checks run after it.
+ */
+function beforeLocking<T>(dbFile: string, check: (reader: StoreReader) => T): T | undefined {
+  let reader: StoreReader;
+  try {
+    reader = openStore(dbFile, { mode: 'read' });
+  } catch (error) {
+    if (error instanceof DisksweepError && error.code === 'input/older-schema') return undefined;
+    throw error;
+  }
+  try {
+    return check(reader);
+  } finally {
+    reader.close();
+  }
 }
 
 function lockStore(dbFile: string): SweepStore {
@@ -94,10 +132,17 @@ function lockStore(dbFile: string): SweepStore {
   return store;
 }
 
-async function runCommandAction(specFile: string, opts: { db?: string; workers?: string; json?: boolean }): Promise<number> {
+async function runCommandAction(specFile: string, opts: { db?: string; workers?: string; json?: boolean } & RedisFlags): Promise<number> {
   const workers = parseWorkers(opts.workers);
   const plan = planSweep(loadSpecFile(specFile));
   const dbFile = opts.db ?? `${plan.spec.name}.sqlite`;
+  // A new (absent or empty) file is created by the write open; an existing one is checked read-only first.
+  if (existsSync(dbFile) && statSync(dbFile).size > 0) {
+    beforeLocking(dbFile, (reader) => {
+      const stored = reader.getSweep(plan.sweepId);
+      if (stored !== undefined) checkModelVersion(stored, dbFile);
+    });
+  }
   const store = lockStore(dbFile);
   try {
     let sweep = store.getSweep(plan.sweepId);
@@ -115,7 +160,7 @@ async function runCommandAction(specFile: string, opts: { db?: string; workers?:
         chunkSize = c.chunkSize;
         calibrationOutcomes = c.outcomes.flatMap((o) => storedOutcomes(plan.source, o));
       }
-      const specJson = canonicalJson(plan.spec);
+      const specJson = storedSpecJson(plan.spec);
       const registered = store.registerSweep({
         sweepId: plan.sweepId, name: plan.spec.name, description: plan.spec.description ?? null, specJson,
         specHash: contentHash(plan.spec), modelVersion: MODEL_VERSION, nPoints: plan.source.size, chunkSize,
@@ -124,7 +169,7 @@ async function runCommandAction(specFile: string, opts: { db?: string; workers?:
       if (calibrationOutcomes.length > 0) store.writeResults(calibrationOutcomes);
       reused = reuseEarlierResults(store, plan);
     }
-    return await runPlanned(store, plan, sweep.chunkSize, dbFile, workers, false, reused, opts.json === true);
+    return await runPlanned(store, plan, sweep.chunkSize, dbFile, workers, false, reused, opts.json === true, opts);
   } finally {
     store.close();
   }
@@ -145,8 +190,9 @@ function reuseEarlierResults(store: SweepStore, plan: SweepPlan): number {
   return copied;
 }
 
-async function resumeCommandAction(opts: { db: string; sweep?: string; workers?: string; retryFailed?: boolean; json?: boolean }): Promise<number> {
+async function resumeCommandAction(opts: { db: string; sweep?: string; workers?: string; retryFailed?: boolean; json?: boolean } & RedisFlags): Promise<number> {
   const workers = parseWorkers(opts.workers);
+  beforeLocking(opts.db, (reader) => checkModelVersion(pickSweep(reader, opts.sweep), opts.db));
   const store = lockStore(opts.db);
   try {
     const sweep = pickSweep(store, opts.sweep);
@@ -155,7 +201,7 @@ async function resumeCommandAction(opts: { db: string; sweep?: string; workers?:
     if (plan.sweepId !== sweep.sweepId) {
       throw new DisksweepError('internal/unexpected', `stored spec of ${sweep.name} hashes to ${plan.sweepId}, not its id ${sweep.sweepId}`);
     }
-    return await runPlanned(store, plan, sweep.chunkSize, opts.db, workers, opts.retryFailed === true, 0, opts.json === true);
+    return await runPlanned(store, plan, sweep.chunkSize, opts.db, workers, opts.retryFailed === true, 0, opts.json === true, opts);
   } finally {
     store.close();
   }
@@ -247,16 +293,16 @@ export function sweepCommands(): Command[] {
       .argument('<spec>', 'sweep spec (YAML, or JSON for .json files)').addOption(workersOption()).option('--json', 'print one JSON object')
       .addHelpText('after', '\nExample:\n  disksweep validate examples/corvid-rift-cores.yaml\n\nRuns a few of the sweep\'s own models to time them; writes nothing.')
       .action(exitWith((spec: string, opts: { workers?: string; json?: boolean }) => validateCommandAction(spec, opts))),
-    new Command('run').description('run a sweep on this machine into a SQLite database (resumable)')
+    withRedisOptions(new Command('run').description('run a sweep on this machine into a SQLite database (resumable)')
       .argument('<spec>', 'sweep spec (YAML, or JSON for .json files)')
       .option('--db <file>', 'the SQLite database (default: <spec name>.sqlite here)').addOption(workersOption()).option('--json', 'print the summary as JSON')
       .addHelpText('after', '\nExamples:\n  disksweep run examples/corvid-rift-cores.yaml\n  disksweep run my-sweep.yaml --db runs/my-sweep.sqlite --workers 8\n\nProgress goes to stderr. Ctrl-C stops after the chunks in flight; run `disksweep resume --db FILE` to go on.\nAn edited spec run into the same database reuses every result whose point is unchanged.')
-      .action(exitWith((spec: string, opts: { db?: string; workers?: string; json?: boolean }) => runCommandAction(spec, opts))),
-    new Command('resume').description('run exactly the points of a stored sweep that have no result yet')
+      .action(exitWith((spec: string, opts: { db?: string; workers?: string; json?: boolean } & RedisFlags) => runCommandAction(spec, opts)))),
+    withRedisOptions(new Command('resume').description('run exactly the points of a stored sweep that have no result yet')
       .addOption(dbOption()).addOption(sweepOption()).addOption(workersOption())
       .option('--retry-failed', 'also rerun points whose model failed (step_limit, non_finite, ...)').option('--json', 'print the summary as JSON')
       .addHelpText('after', '\nExamples:\n  disksweep resume --db corvid-rift-cores.sqlite\n  disksweep resume --db corvid-rift-cores.sqlite --retry-failed\n\nPoints that crashed or threw (infrastructure errors) are always rerun.')
-      .action(exitWith((opts: { db: string; sweep?: string; workers?: string; retryFailed?: boolean; json?: boolean }) => resumeCommandAction(opts))),
+      .action(exitWith((opts: { db: string; sweep?: string; workers?: string; retryFailed?: boolean; json?: boolean } & RedisFlags) => resumeCommandAction(opts)))),
     new Command('status').description('counts by status, throughput, ETA and the most common failure reasons')
       .addOption(dbOption()).addOption(sweepOption()).option('--json', 'print one JSON object')
       .addHelpText('after', '\nExample:\n  disksweep status --db corvid-rift-cores.sqlite\n\nSafe while a sweep is writing (read-only).')

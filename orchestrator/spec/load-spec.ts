@@ -6,7 +6,7 @@
  */
 import { readFileSync, statSync } from 'node:fs';
 import { extname } from 'node:path';
-import { parse as parseYaml, YAMLError } from 'yaml';
+import { parseDocument, YAMLError } from 'yaml';
 import type { z } from 'zod';
 import { DisksweepError } from '../../shared/errors.js';
 import { checkSpecSemantics, dimensionsOf, sweepSpecSchema, type Dimension, type SweepSpec } from '../../shared/sweep-spec.js';
@@ -31,7 +31,7 @@ function specError(source: string, details: string[]): DisksweepError {
 export function parseSpecText(text: string, source: string, format: 'yaml' | 'json' = 'yaml'): LoadedSpec {
   let raw: unknown;
   try {
-    raw = format === 'json' ? JSON.parse(text) : parseYaml(text, { schema: 'core', maxAliasCount: 64, uniqueKeys: true, prettyErrors: true });
+    raw = format === 'json' ? JSON.parse(text) : readYaml(text);
   } catch (error) {
     const what = error instanceof YAMLError ? error.message.split('\n')[0] : error instanceof Error ? error.message : String(error);
     throw specError(source, [`cannot parse ${format.toUpperCase()}: ${what}`]);
@@ -45,6 +45,18 @@ export function parseSpecText(text: string, source: string, format: 'yaml' | 'js
   const box = checkParameterBox(spec, dimensions);
   if (box.length > 0) throw specError(source, box);
   return { spec, dimensions };
+}
+
+/**
+ * YAML with the core schema. `yaml`'s own parse() only warns about an unresolved (custom) tag and keeps the
+ * plain value, so `!include other.yaml` would silently become the string "other.yaml"; a spec has no use for
+ * custom tags, so every warning is refused like an error.
+ */
+function readYaml(text: string): unknown {
+  const doc = parseDocument(text, { schema: 'core', uniqueKeys: true, prettyErrors: true });
+  const [first] = [...doc.errors, ...doc.warnings];
+  if (first !== undefined) throw first;
+  return doc.toJS({ maxAliasCount: 64 });
 }
 
 function zodDetails(error: z.ZodError): string[] {

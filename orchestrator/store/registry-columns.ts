@@ -1,7 +1,8 @@
 /**
  * The typed columns that come from our registries rather than from the migration SQL: one per model
- * parameter (points), one per scalar output (results), one per checkpoint output (checkpoints). A new
- * parameter or output becomes a new nullable column the next time a writer opens the store.
+ * parameter (points), one per scalar output (results), one per checkpoint output (checkpoint_rows, which the
+ * view `checkpoints` shows with the sweep and point ids). A new parameter or output becomes a new nullable
+ * column the next time a writer opens the store.
  *
  * Column names are identifiers from our own tables, never user input; they are still checked against a strict
  * pattern before they are put into SQL text.
@@ -13,7 +14,7 @@ import { PARAMS, PARAM_NAMES, type ParamDescriptor } from '../../shared/model-pa
 import { CHECKPOINT_OUTPUTS, SCALAR_OUTPUTS, type OutputDescriptor } from '../../shared/model-outputs.js';
 
 export type SqlType = 'REAL' | 'INTEGER' | 'TEXT';
-export type RegistryTable = 'points' | 'results' | 'checkpoints';
+export type RegistryTable = 'points' | 'results' | 'checkpoint_rows';
 
 export interface ParamColumn {
   readonly name: string;
@@ -39,12 +40,13 @@ export function ident(name: string): string {
 
 /** Columns the migration creates; a registry name equal to one of them would be ambiguous. */
 export const BASE_COLUMNS: Readonly<Record<RegistryTable, readonly string[]>> = {
-  points: ['sweep_id', 'point_id', 'point_index'],
+  points: ['point_key', 'sweep_key', 'point_id', 'point_index', 'sweep_id'],
   results: [
-    'sweep_id', 'point_id', 'point_index', 'status', 'status_reason', 'model_version', 'steps', 'rejected_steps', 'wall_ms',
-    'worker_host', 'finished_at',
+    'point_key', 'sweep_key', 'sweep_id', 'point_id', 'status', 'status_reason', 'model_version', 'steps', 'rejected_steps',
+    'wall_ms', 'worker_host', 'finished_at',
   ],
-  checkpoints: ['sweep_id', 'point_id', 't_myr'],
+  // The view `checkpoints` puts sweep_id and point_id in front of these: registry names must not take them.
+  checkpoint_rows: ['point_key', 't_myr', 'sweep_id', 'point_id'],
 };
 
 const paramSqlType = (d: ParamDescriptor): SqlType => (d.kind === 'number' ? 'REAL' : 'TEXT');
@@ -71,13 +73,13 @@ export const CHECKPOINT_COLUMNS: readonly OutputColumn[] = CHECKPOINT_OUTPUTS.ma
 const REGISTRY: Readonly<Record<RegistryTable, readonly { name: string; sqlType: SqlType }[]>> = {
   points: PARAM_COLUMNS,
   results: SCALAR_COLUMNS,
-  checkpoints: CHECKPOINT_COLUMNS,
+  checkpoint_rows: CHECKPOINT_COLUMNS,
 };
 
 const tableInfoRow = z.object({ name: z.string(), type: z.string() });
 
 /** Declared column types of a table, by name. */
-export function tableColumns(db: Database.Database, table: RegistryTable | 'series' | 'sweeps' | 'locks'): Map<string, string> {
+export function tableColumns(db: Database.Database, table: RegistryTable | 'series_rows' | 'sweeps' | 'locks'): Map<string, string> {
   const rows = z.array(tableInfoRow).parse(db.pragma(`table_info(${ident(table)})`));
   return new Map(rows.map((r) => [r.name, r.type.toUpperCase()]));
 }

@@ -2,10 +2,12 @@
  * Reuse across sweeps of one database. A point id hashes the resolved model input and the model version, so a
  * result stored under another sweep with the same point id is the result this sweep would compute. When a spec
  * is edited, the new sweep copies those rows (point, result, checkpoints, series) under its own sweep id and
- * its own point index, instead of recomputing them. The same never-overwrite-ok rule applies.
+ * its own point index (so under its own point keys), instead of recomputing them. The same never-overwrite-ok
+ * rule applies.
  */
 import type Database from 'better-sqlite3';
 import { DisksweepError } from '../../shared/errors.js';
+import { pointKeyOf, SweepKeys, type SweepKeyInfo } from './point-keys.js';
 import { ident, tableColumns } from './registry-columns.js';
 import { INFRASTRUCTURE_ERROR } from './store-types.js';
 
@@ -28,80 +30,102 @@ export interface ReusablePoint {
 const REUSE_BATCH = 2000;
 
 /** Every column of a table except the ones listed (read from the table, so stray old columns are copied too). */
-function columnsExcept(db: Database.Database, table: 'points' | 'results' | 'checkpoints', skip: readonly string[]): string[] {
+function columnsExcept(db: Database.Database, table: 'points' | 'results' | 'checkpoint_rows', skip: readonly string[]): string[] {
   return [...tableColumns(db, table).keys()].filter((c) => !skip.includes(c)).map(ident);
 }
 
 export class ResultReuse {
-  private readonly sourceStatus: Database.Statement<[string, string]>;
-  private readonly copyPoint: Database.Statement<[string, number, string, string]>;
-  private readonly copyResult: Database.Statement<[string, number, string, string]>;
-  private readonly deleteCheckpoints: Database.Statement<[string, string]>;
-  private readonly copyCheckpoints: Database.Statement<[string, string, string]>;
-  private readonly deleteSeries: Database.Statement<[string, string]>;
-  private readonly copySeries: Database.Statement<[string, string, string]>;
-  private readonly sweepSize: Database.Statement<[string]>;
+  private readonly keys: SweepKeys;
+  private readonly findPoint: Database.Statement<[number, string]>;
+  private readonly copyPoint: Database.Statement<[number, number, number, string, number]>;
+  private readonly copyResult: Database.Statement<[number, number, string, number]>;
+  private readonly replaceResult: Database.Statement<[number, number]>;
+  private readonly deleteCheckpoints: Database.Statement<[number]>;
+  private readonly copyCheckpoints: Database.Statement<[number, number]>;
+  private readonly deleteSeries: Database.Statement<[number]>;
+  private readonly copySeries: Database.Statement<[number, number]>;
   private readonly copyBatch: (
-    from: string,
-    to: string,
+    from: SweepKeyInfo,
+    to: SweepKeyInfo & { readonly sweepId: string },
     points: readonly ReusablePoint[],
     retryFailed: boolean,
     byStatus: Record<string, number>,
   ) => number;
 
   constructor(db: Database.Database) {
-    this.sourceStatus = db.prepare('SELECT status FROM results WHERE sweep_id = ? AND point_id = ?').pluck();
-    const pointCols = columnsExcept(db, 'points', ['sweep_id', 'point_id', 'point_index']);
+    this.keys = new SweepKeys(db);
+    this.findPoint = db
+      .prepare<[number, string]>(
+        `SELECT p.point_key, r.status FROM points p LEFT JOIN results r ON r.point_key = p.point_key
+         WHERE p.sweep_key = ? AND p.point_id = ?`,
+      )
+      .raw(true);
+    const pointCols = columnsExcept(db, 'points', ['point_key', 'sweep_key', 'point_id', 'point_index', 'sweep_id']);
     const extra = pointCols.length > 0 ? `, ${pointCols.join(', ')}` : '';
+    // (new key, new sweep key, new index, new sweep id, source key)
     this.copyPoint = db.prepare(
-      `INSERT INTO points (sweep_id, point_id, point_index${extra})
-       SELECT ?, point_id, ?${extra} FROM points WHERE sweep_id = ? AND point_id = ?
-       ON CONFLICT (sweep_id, point_id) DO NOTHING`,
+      `INSERT INTO points (point_key, sweep_key, point_index, sweep_id, point_id${extra})
+       SELECT ?, ?, ?, ?, point_id${extra} FROM points WHERE point_key = ?`,
     );
-    const resultCols = columnsExcept(db, 'results', ['sweep_id', 'point_id', 'point_index']);
-    const set = resultCols.map((c) => `${c} = excluded.${c}`).join(', ');
+    const resultCols = columnsExcept(db, 'results', ['point_key', 'sweep_key', 'sweep_id', 'point_id']);
+    // (new key, new sweep key, new sweep id, source key)
     this.copyResult = db.prepare(
-      `INSERT INTO results (sweep_id, point_id, point_index, ${resultCols.join(', ')})
-       SELECT ?, point_id, ?, ${resultCols.join(', ')} FROM results WHERE sweep_id = ? AND point_id = ?
-       ON CONFLICT (sweep_id, point_id) DO UPDATE SET ${set} WHERE results.status <> 'ok'`,
+      `INSERT INTO results (point_key, sweep_key, sweep_id, point_id, ${resultCols.join(', ')})
+       SELECT ?, ?, ?, point_id, ${resultCols.join(', ')} FROM results WHERE point_key = ?`,
     );
-    const cpCols = columnsExcept(db, 'checkpoints', ['sweep_id', 'point_id']).join(', ');
-    this.deleteCheckpoints = db.prepare('DELETE FROM checkpoints WHERE sweep_id = ? AND point_id = ?');
+    // (source key, target key): replaces a non-ok row of the target with the source's values.
+    this.replaceResult = db.prepare(
+      `UPDATE results SET (${resultCols.join(', ')}) = (SELECT ${resultCols.join(', ')} FROM results WHERE point_key = ?)
+       WHERE point_key = ? AND status <> 'ok'`,
+    );
+    const cpCols = columnsExcept(db, 'checkpoint_rows', ['point_key']).join(', ');
+    this.deleteCheckpoints = db.prepare('DELETE FROM checkpoint_rows WHERE point_key = ?');
     this.copyCheckpoints = db.prepare(
-      `INSERT INTO checkpoints (sweep_id, point_id, ${cpCols})
-       SELECT ?, point_id, ${cpCols} FROM checkpoints WHERE sweep_id = ? AND point_id = ?`,
+      `INSERT INTO checkpoint_rows (point_key, ${cpCols}) SELECT ?, ${cpCols} FROM checkpoint_rows WHERE point_key = ?`,
     );
-    this.deleteSeries = db.prepare('DELETE FROM series WHERE sweep_id = ? AND point_id = ?');
+    this.deleteSeries = db.prepare('DELETE FROM series_rows WHERE point_key = ?');
     this.copySeries = db.prepare(
-      `INSERT INTO series (sweep_id, point_id, columns, n_samples, data)
-       SELECT ?, point_id, columns, n_samples, data FROM series WHERE sweep_id = ? AND point_id = ?`,
+      `INSERT INTO series_rows (point_key, columns, n_samples, data)
+       SELECT ?, columns, n_samples, data FROM series_rows WHERE point_key = ?`,
     );
-    this.sweepSize = db.prepare('SELECT n_points FROM sweeps WHERE sweep_id = ?').pluck();
     this.copyBatch = db.transaction(
-      (from: string, to: string, points: readonly ReusablePoint[], retryFailed: boolean, byStatus: Record<string, number>) => {
+      (
+        from: SweepKeyInfo,
+        to: SweepKeyInfo & { readonly sweepId: string },
+        points: readonly ReusablePoint[],
+        retryFailed: boolean,
+        byStatus: Record<string, number>,
+      ) => {
         let copied = 0;
         for (const p of points) {
-          const status: unknown = this.sourceStatus.get(from, p.pointId);
-          if (typeof status !== 'string' || status === INFRASTRUCTURE_ERROR) continue;
+          const source = this.findPoint.get(from.sweepKey, p.pointId) as [number, string | null] | undefined;
+          const status = source?.[1];
+          if (source === undefined || typeof status !== 'string' || status === INFRASTRUCTURE_ERROR) continue;
           if (status !== 'ok' && retryFailed) continue;
-          this.copyPoint.run(to, p.pointIndex, from, p.pointId);
-          if (this.copyResult.run(to, p.pointIndex, from, p.pointId).changes === 0) continue;
-          this.deleteCheckpoints.run(to, p.pointId);
-          this.deleteSeries.run(to, p.pointId);
-          this.copyCheckpoints.run(to, from, p.pointId);
-          this.copySeries.run(to, from, p.pointId);
+          const sourceKey = source[0];
+          const target = this.findPoint.get(to.sweepKey, p.pointId) as [number, string | null] | undefined;
+          let key: number;
+          if (target === undefined) {
+            key = pointKeyOf(to.sweepKey, p.pointIndex);
+            this.copyPoint.run(key, to.sweepKey, p.pointIndex, to.sweepId, sourceKey);
+            this.copyResult.run(key, to.sweepKey, to.sweepId, sourceKey);
+          } else if (target[1] === null) {
+            key = target[0];
+            this.copyResult.run(key, to.sweepKey, to.sweepId, sourceKey);
+          } else {
+            key = target[0];
+            if (target[1] === 'ok' || this.replaceResult.run(sourceKey, key).changes === 0) continue;
+            this.deleteCheckpoints.run(key);
+            this.deleteSeries.run(key);
+          }
+          this.copyCheckpoints.run(key, sourceKey);
+          this.copySeries.run(key, sourceKey);
           byStatus[status] = (byStatus[status] ?? 0) + 1;
           copied++;
         }
         return copied;
       },
     );
-  }
-
-  private size(sweepId: string): number {
-    const n: unknown = this.sweepSize.get(sweepId);
-    if (typeof n !== 'number') throw new DisksweepError('store/unknown-sweep', `this database holds no sweep ${sweepId}`);
-    return n;
   }
 
   /**
@@ -115,15 +139,16 @@ export class ResultReuse {
     points: Iterable<ReusablePoint>,
     options: { retryFailed?: boolean } = {},
   ): ReuseSummary {
-    this.size(fromSweepId);
-    const n = this.size(toSweepId);
+    const from = this.keys.require(fromSweepId);
+    const to = { ...this.keys.require(toSweepId), sweepId: toSweepId };
+    const n = to.nPoints;
     if (fromSweepId === toSweepId) return { considered: 0, copied: 0, byStatus: {} };
     const byStatus: Record<string, number> = {};
     let considered = 0;
     let copied = 0;
     let pending: ReusablePoint[] = [];
     const flush = () => {
-      copied += this.copyBatch(fromSweepId, toSweepId, pending, options.retryFailed === true, byStatus);
+      copied += this.copyBatch(from, to, pending, options.retryFailed === true, byStatus);
       pending = [];
     };
     for (const p of points) {

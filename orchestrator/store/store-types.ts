@@ -74,7 +74,8 @@ export const newSweepSchema = z
     specJson: z.string().min(2),
     specHash: hashLike,
     modelVersion: z.string().min(1),
-    nPoints: z.number().int().nonnegative(),
+    /** Points the sweep expands to; at most 2^32 (a point's index is the low 32 bits of its key). */
+    nPoints: z.number().int().nonnegative().max(2 ** 32),
     /** Points per chunk, calibrated once; a resume keeps it. */
     chunkSize: z.number().int().min(1),
   })

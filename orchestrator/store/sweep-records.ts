@@ -1,10 +1,12 @@
 /**
  * The sweeps table: one row per sweep a database holds (spec, hashes, model version, counts, chunk size).
+ * Its integer sweep_key (the rowid, given on insert) stays inside the store: records carry the sweep_id.
  */
 import type Database from 'better-sqlite3';
 import { z } from 'zod';
 import { DisksweepError } from '../../shared/errors.js';
 import { issuesToDetails } from '../../shared/model-params.js';
+import { checkSweepKey } from './point-keys.js';
 import { newSweepSchema, sweepRecordSchema, type NewSweep, type RegisterOutcome, type SweepRecord } from './store-types.js';
 
 const SWEEP_COLUMNS =
@@ -102,7 +104,8 @@ export class SweepWriter extends SweepReader {
             : { kind: 'model-version-mismatch', sweep: existing, requestedModelVersion: s.modelVersion };
         }
         const t = this.now();
-        this.insert.run(s.sweepId, s.name, s.description, s.specJson, s.specHash, s.modelVersion, s.nPoints, s.chunkSize, t, t);
+        const { lastInsertRowid } = this.insert.run(s.sweepId, s.name, s.description, s.specJson, s.specHash, s.modelVersion, s.nPoints, s.chunkSize, t, t);
+        checkSweepKey(Number(lastInsertRowid)); // the new sweep_key: its point keys must stay exact numbers
         return { kind: 'created', sweep: { ...s, createdAt: t, updatedAt: t } };
       })
       .immediate();

@@ -14,7 +14,19 @@ export const MAX_CHUNK_SIZE = 10_000;
 
 export function sweepIdOf(spec: SweepSpec): string {
   const { name: _name, description: _description, chunks: _chunks, ...content } = spec;
-  return contentHash(content);
+  // The order of `vary` decides the order of the points (grid: first dimension slowest; designs: coordinate
+  // d), and point indexes and chunk boundaries rest on that order. canonicalJson sorts object keys, so the
+  // varied parameters are hashed as [name, range] pairs in spec order: a reordered spec is another sweep
+  // (whose unchanged points are reused by id), never the same sweep with its points silently renumbered.
+  return contentHash({ ...content, vary: Object.entries(content.vary) });
+}
+
+/**
+ * The spec as stored with its sweep and read back by `resume`: JSON that keeps the spec's key order (the
+ * order of `vary` is part of the sweep; canonical JSON would sort it away).
+ */
+export function storedSpecJson(spec: SweepSpec): string {
+  return JSON.stringify(spec);
 }
 
 export interface SweepPlan {

@@ -4,51 +4,32 @@
  * dies takes only its chunk with it: that chunk's points are committed as infrastructure failures, which
  * `resume` retries.
  */
-import { availableParallelism, hostname } from 'node:os';
-import { fileURLToPath } from 'node:url';
-import { Piscina } from 'piscina';
-import { chunkOutcomeSchema, type ChunkOutcomePayload, type ChunkTaskPayload } from '../../shared/job-payload.js';
+import { createChunkPool, crashedOutcome, defaultThreadCount } from '../../worker/chunk-pool.js';
+import type { ChunkOutcomePayload, ChunkTaskPayload } from '../../shared/job-payload.js';
 import type { CommitOutcome, Transport } from './transport.js';
 
-const WORKER_FILE = fileURLToPath(new URL('../../worker/chunk-worker.js', import.meta.url));
-const decoder = new TextDecoder();
+export { defaultThreadCount };
 
 export interface EmbeddedOptions {
   /** Worker threads; default one per core. */
   readonly threads?: number;
 }
 
-export function defaultThreadCount(): number {
-  return availableParallelism();
-}
-
 export function createEmbeddedTransport(options: EmbeddedOptions = {}): Transport {
   const threads = options.threads ?? defaultThreadCount();
-  const pool = new Piscina({ filename: WORKER_FILE, minThreads: threads, maxThreads: threads, idleTimeout: 60_000 });
+  const pool = createChunkPool(threads);
   let commit: CommitOutcome | null = null;
   const inFlight = new Set<Promise<void>>();
   let closing = false;
   let fatal: unknown = null;
 
-  const crashed = (chunk: ChunkTaskPayload, error: unknown): ChunkOutcomePayload => ({
-    sweep_id: chunk.sweep_id,
-    chunk_index: chunk.chunk_index,
-    worker_host: hostname(),
-    points: chunk.points.map((p) => ({
-      point_index: p.point_index,
-      point_id: p.point_id,
-      outcome: { kind: 'infrastructure', reason: `worker thread failed: ${error instanceof Error ? error.message : String(error)}`.slice(0, 2000) },
-    })),
-  });
-
   const runOne = async (chunk: ChunkTaskPayload): Promise<void> => {
     let outcome: ChunkOutcomePayload;
     try {
-      const buffer = (await pool.run(chunk)) as ArrayBuffer | Uint8Array;
-      outcome = chunkOutcomeSchema.parse(JSON.parse(decoder.decode(buffer)));
+      outcome = await pool.run(chunk);
     } catch (error) {
       if (closing) return; // abandoned on an immediate close: no result, so resume reruns it
-      outcome = crashed(chunk, error);
+      outcome = crashedOutcome(chunk, error);
     }
     if (commit === null) throw new Error('embedded transport: onOutcome was not registered');
     try {

@@ -1,0 +1,58 @@
+/**
+ * The transport `run` and `resume` use: embedded unless `--redis URL` or DISKSWEEP_REDIS_URL names a Redis.
+ * With Redis, results an earlier orchestrator left in the results queue are committed before the caller asks
+ * the store what is missing, and `--workers N` also starts N worker threads in this process.
+ */
+import { hostname } from 'node:os';
+import { MODEL_VERSION } from '../../shared/model-version.js';
+import { startQueueWorker, type QueueWorker } from '../../worker/queue-worker.js';
+import type { SweepStore } from '../store/index.js';
+import type { SweepPlan } from '../sweep/sweep-plan.js';
+import { storedOutcomes } from '../sweep/sweep-runner.js';
+import { createEmbeddedTransport } from '../transport/embedded-transport.js';
+import { redact } from '../transport/redis-connection.js';
+import { createRedisTransport } from '../transport/redis-transport.js';
+import type { Transport } from '../transport/transport.js';
+import { redisSettings, type RedisFlags } from './redis-flags.js';
+
+export interface OpenTransportInput {
+  readonly flags: RedisFlags & { workers?: string };
+  /** Threads for the embedded transport (or local Redis workers when --workers was given). */
+  readonly workers: number;
+  readonly store: SweepStore;
+  readonly plan: SweepPlan;
+}
+
+const log = (line: string): void => void process.stderr.write(redact(line) + '\n');
+
+export async function openTransport(input: OpenTransportInput): Promise<Transport> {
+  const settings = redisSettings(input.flags, log);
+  if (settings === undefined) return createEmbeddedTransport({ threads: input.workers });
+  const { target } = settings;
+  const prefixFlag = target.prefix === 'disksweep' ? '' : ` --redis-prefix ${target.prefix}`;
+  const urlPart = input.flags.redis !== undefined ? ` --redis '${settings.redactedUrl}'` : '';
+  const transport = await createRedisTransport({
+    target, sweepId: input.plan.sweepId, modelVersion: MODEL_VERSION, maxQueued: settings.maxQueued, lockMs: settings.lockMs,
+    stalledMs: settings.stalledMs, log, workerCommand: `disksweep work${urlPart}${prefixFlag}${input.flags.redisPasswordFile !== undefined ? ' --redis-password-file FILE' : ''}`,
+  });
+  await transport.drain(async (outcome) => {
+    input.store.writeResults(storedOutcomes(input.plan.source, outcome));
+  });
+  let local: QueueWorker | null = null;
+  if (input.flags.workers !== undefined) {
+    local = await startQueueWorker({ target, threads: input.workers, lockMs: settings.lockMs, stalledMs: settings.stalledMs, log: (l) => log(`local worker: ${l}`) });
+  }
+  if (local === null) return transport;
+  const localWorker = local;
+  return {
+    ...transport,
+    description: `${transport.description}, ${input.workers} local worker thread${input.workers === 1 ? '' : 's'} on ${hostname()}`,
+    async close(mode) {
+      try {
+        await transport.close(mode);
+      } finally {
+        await localWorker.close();
+      }
+    },
+  };
+}

@@ -1,0 +1,149 @@
+/**
+ * A Redis URL (`redis://` or `rediss://` for TLS) turned into the connection options BullMQ takes, and the one
+ * redactor every log line, error and stack trace that may carry a URL or a password goes through. What is ever
+ * stored or printed about a Redis is `describeRedis` (host, port, db, key prefix): never a password.
+ */
+import { readFileSync } from 'node:fs';
+import { DisksweepError } from '../../shared/errors.js';
+
+/** Options handed to BullMQ (which makes its own ioredis connections from them). */
+export interface RedisConnectionOptions {
+  readonly host?: string;
+  readonly port?: number;
+  /** A unix socket instead of host and port (`redis+unix:///path/redis.sock` or `unix:///path`). */
+  readonly path?: string;
+  readonly username?: string;
+  readonly password?: string;
+  readonly db: number;
+  readonly tls?: { readonly servername?: string };
+}
+
+export interface RedisTarget {
+  readonly connection: RedisConnectionOptions;
+  /** Key prefix of every key disksweep writes (BullMQ's `prefix`). */
+  readonly prefix: string;
+  /** host:port/db or the socket path, plus the prefix: what logs, the database and heartbeats may hold. */
+  readonly description: string;
+}
+
+const secrets = new Set<string>();
+
+/** Register a secret (a password) so `redact` hides it wherever it appears. */
+export function registerSecret(secret: string | undefined): void {
+  if (secret !== undefined && secret.length > 0) {
+    secrets.add(secret);
+    secrets.add(encodeURIComponent(secret));
+  }
+}
+
+/**
+ * Hide passwords in any text: the userinfo of every URL-like `scheme://user:pass@` and every registered
+ * secret. Apply it to anything printed that might hold a URL or a Redis error.
+ */
+export function redact(text: string): string {
+  let out = text.replace(/([a-z][a-z0-9+.-]*:\/\/)([^/@\s]*)@/gi, (_m, scheme: string, userinfo: string) => {
+    const colon = userinfo.indexOf(':');
+    return colon < 0 ? `${scheme}${userinfo}@` : `${scheme}${userinfo.slice(0, colon)}:***@`;
+  });
+  for (const s of [...secrets].sort((a, b) => b.length - a.length)) out = out.split(s).join('***');
+  return out;
+}
+
+/** An error's message and stack, redacted, as one string. */
+export function redactError(error: unknown): string {
+  if (error instanceof Error) return redact(error.message);
+  return redact(String(error));
+}
+
+/** Wrap any error so nothing that reaches the user carries a password (message, stack and cause redacted). */
+export function redactedError(error: unknown, context: string): DisksweepError {
+  const wrapped = new DisksweepError('internal/unexpected', `${context}: ${redactError(error)}`);
+  if (wrapped.stack !== undefined) wrapped.stack = redact(wrapped.stack);
+  return wrapped;
+}
+
+export interface TargetInput {
+  readonly url: string;
+  /** A file whose first line is the password (overrides one in the URL). */
+  readonly passwordFile?: string;
+  readonly prefix?: string;
+}
+
+const PREFIX_RE = /^[A-Za-z0-9_.-]{1,64}$/;
+
+export function parseRedisTarget(input: TargetInput): RedisTarget {
+  let url: URL;
+  try {
+    url = new URL(input.url);
+  } catch {
+    throw new DisksweepError('input/invalid-flag', `--redis: not a URL (got "${redact(input.url)}"); expected redis://[user:password@]host[:port][/db] or rediss:// for TLS`);
+  }
+  const passwordInUrl = url.password === '' ? undefined : decodeURIComponent(url.password);
+  registerSecret(passwordInUrl);
+  let password = passwordInUrl;
+  if (input.passwordFile !== undefined) {
+    let text: string;
+    try {
+      text = readFileSync(input.passwordFile, 'utf8');
+    } catch (error) {
+      throw new DisksweepError('input/unreadable-file', `--redis-password-file ${input.passwordFile}: cannot read it (${error instanceof Error ? error.message : String(error)})`);
+    }
+    password = text.split(/\r?\n/)[0];
+    registerSecret(password);
+  }
+  const prefix = input.prefix ?? 'disksweep';
+  if (!PREFIX_RE.test(prefix)) throw new DisksweepError('input/invalid-flag', `--redis-prefix: expected 1-64 letters, digits, '_', '.' or '-' (got "${prefix}")`);
+  const username = url.username === '' ? undefined : decodeURIComponent(url.username);
+  const scheme = url.protocol;
+  if (scheme === 'redis+unix:' || scheme === 'unix:') {
+    const path = decodeURIComponent(url.pathname);
+    if (path === '') throw new DisksweepError('input/invalid-flag', `--redis: ${redact(input.url)} names no socket path`);
+    const db = dbNumber(url.searchParams.get('db') ?? '0', input.url);
+    return { connection: { path, username, password, db }, prefix, description: `unix:${path} db ${db}, prefix ${prefix}` };
+  }
+  if (scheme !== 'redis:' && scheme !== 'rediss:') {
+    throw new DisksweepError('input/invalid-flag', `--redis: expected a redis:// or rediss:// URL (got scheme "${scheme}" in "${redact(input.url)}")`);
+  }
+  if (url.hostname === '') throw new DisksweepError('input/invalid-flag', `--redis: ${redact(input.url)} names no host`);
+  const host = url.hostname.replace(/^\[(.*)\]$/, '$1');
+  const port = url.port === '' ? 6379 : Number(url.port);
+  const db = dbNumber(url.pathname.replace(/^\//, '') || '0', input.url);
+  const tls = scheme === 'rediss:' ? { servername: host } : undefined;
+  return {
+    connection: { host, port, username, password, db, ...(tls === undefined ? {} : { tls }) },
+    prefix,
+    description: `${scheme === 'rediss:' ? 'rediss' : 'redis'} ${host}:${port} db ${db}, prefix ${prefix}`,
+  };
+}
+
+function dbNumber(text: string, rawUrl: string): number {
+  if (!/^\d{1,2}$/.test(text)) throw new DisksweepError('input/invalid-flag', `--redis: database number must be 0-99 (got "${text}" in "${redact(rawUrl)}")`);
+  return Number(text);
+}
+
+/** True when the URL carries a password itself (it is then visible to anyone who can list processes). */
+export function urlHasPassword(rawUrl: string): boolean {
+  try {
+    return new URL(rawUrl).password !== '';
+  } catch {
+    return false;
+  }
+}
+
+/** BullMQ connection options: plain fields plus what workers need (never give up on a request while Redis is away). */
+export function bullConnection(c: RedisConnectionOptions): Record<string, unknown> {
+  return {
+    ...c,
+    tls: c.tls === undefined ? undefined : { ...c.tls, ...tlsFromEnv() },
+    maxRetriesPerRequest: null,
+    enableOfflineQueue: true,
+    retryStrategy: (times: number) => Math.min(200 * times, 2000),
+  };
+}
+
+/** Extra CA certificate for TLS Redis (DISKSWEEP_REDIS_CA: a PEM file), e.g. a private CA. */
+function tlsFromEnv(): Record<string, unknown> {
+  const ca = process.env.DISKSWEEP_REDIS_CA;
+  if (ca === undefined || ca === '') return {};
+  return { ca: readFileSync(ca) };
+}

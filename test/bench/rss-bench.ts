@@ -1,0 +1,131 @@
+/**
+ * Memory of the orchestrator on a large sweep: the built CLI (`disksweep run`) as a child process on a
+ * random plan of 10^6 no-op points (DISKSWEEP_MODEL_MODULE = noop-model.js, chunk size calibrated as a user
+ * would get it), into a temporary database. Its resident set is sampled from /proc/<pid>/status (VmRSS, and
+ * VmHWM, the kernel's peak) while the progress lines on stderr say how far it is. If the sweep would not finish
+ * inside the time budget, the run is interrupted with SIGINT (it finishes its chunks in flight and exits 130)
+ * and the report says how many points were done: the trend of RSS against points done is then the evidence
+ * for "bounded", not a finished run.
+ */
+import { spawn } from 'node:child_process';
+import { readFileSync, writeFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { NOOP_MODEL_PATH, noopSpec } from './sweep-bench.js';
+import { progress, sig } from './stats.js';
+import { withTempDirAsync } from './temp-files.js';
+
+const CLI_PATH = fileURLToPath(new URL('../../orchestrator/cli/main.js', import.meta.url));
+const SAMPLE_MS = 250;
+
+export interface RssOptions {
+  readonly points: number;
+  /** Interrupt the sweep (SIGINT) when it has run this long. */
+  readonly budgetMs: number;
+  readonly workers: number;
+}
+
+interface Sample {
+  t_s: number;
+  done: number;
+  rss_mb: number;
+}
+
+export interface RssReport {
+  command: string;
+  points_planned: number;
+  points_done: number;
+  finished: boolean;
+  exit_code: number | null;
+  wall_s: number;
+  points_per_s: number;
+  /** Largest VmHWM read (the kernel's own peak of the resident set). */
+  peak_rss_mb: number;
+  /** Least-squares slope of VmRSS against points done, over the second half of the samples. */
+  rss_slope_mb_per_100k_points: number | null;
+  /** RSS at about every tenth of the run. */
+  samples: Sample[];
+}
+
+function statusKb(pid: number, field: 'VmRSS' | 'VmHWM'): number | null {
+  try {
+    const m = new RegExp(`^${field}:\\s+(\\d+) kB`, 'm').exec(readFileSync(`/proc/${pid}/status`, 'utf8'));
+    return m === null ? null : Number(m[1]);
+  } catch {
+    return null; // the process has gone
+  }
+}
+
+function slope(samples: readonly Sample[]): number | null {
+  const half = samples.slice(Math.floor(samples.length / 2));
+  if (half.length < 3) return null;
+  const n = half.length;
+  const mx = half.reduce((a, s) => a + s.done, 0) / n;
+  const my = half.reduce((a, s) => a + s.rss_mb, 0) / n;
+  const sxx = half.reduce((a, s) => a + (s.done - mx) ** 2, 0);
+  if (sxx === 0) return null;
+  const sxy = half.reduce((a, s) => a + (s.done - mx) * (s.rss_mb - my), 0);
+  return (sxy / sxx) * 100_000;
+}
+
+export async function benchOrchestratorRss(o: RssOptions): Promise<RssReport> {
+  return withTempDirAsync('disksweep-bench-rss-', async (dir) => {
+    const specFile = join(dir, 'million.json');
+    writeFileSync(specFile, JSON.stringify(noopSpec('bench-rss', o.points, 'calibrate')));
+    const args = [CLI_PATH, 'run', specFile, '--db', join(dir, 'million.sqlite'), '--workers', String(o.workers), '--json'];
+    progress(`orchestrator_rss: disksweep run on ${o.points} no-op points (budget ${o.budgetMs / 1000} s)`);
+    const child = spawn(process.execPath, args, {
+      env: { ...process.env, DISKSWEEP_MODEL_MODULE: NOOP_MODEL_PATH },
+      stdio: ['ignore', 'pipe', 'pipe'],
+    });
+    const pid = child.pid;
+    if (pid === undefined) throw new Error('could not start disksweep run');
+    let stdout = '';
+    let stderrTail = '';
+    let done = 0;
+    child.stdout.setEncoding('utf8').on('data', (s: string) => (stdout += s));
+    child.stderr.setEncoding('utf8').on('data', (s: string) => {
+      stderrTail = (stderrTail + s).slice(-4000);
+      for (const m of s.matchAll(/: (\d+)\/\d+ done/g)) done = Number(m[1]);
+    });
+    const exited = new Promise<number | null>((resolve) => child.on('exit', (code) => resolve(code)));
+    const t0 = performance.now();
+    const all: Sample[] = [];
+    let peakKb = 0;
+    let interrupted = false;
+    const timer = setInterval(() => {
+      const rss = statusKb(pid, 'VmRSS');
+      peakKb = Math.max(peakKb, statusKb(pid, 'VmHWM') ?? 0);
+      if (rss !== null) all.push({ t_s: (performance.now() - t0) / 1000, done, rss_mb: rss / 1024 });
+      if (!interrupted && performance.now() - t0 > o.budgetMs) {
+        interrupted = true;
+        progress(`orchestrator_rss: budget reached at ${done} points: SIGINT (finishing the chunks in flight)`);
+        child.kill('SIGINT');
+        setTimeout(() => child.kill('SIGKILL'), 60_000).unref();
+      }
+    }, SAMPLE_MS);
+    const code = await exited;
+    clearInterval(timer);
+    const wallS = (performance.now() - t0) / 1000;
+    const summary = /\{.*\}/s.exec(stdout);
+    const parsed: unknown = summary === null ? null : JSON.parse(summary[0]);
+    const committed = typeof parsed === 'object' && parsed !== null && 'done' in parsed && typeof parsed.done === 'number' ? parsed.done : done;
+    if (code !== 0 && code !== 130) throw new Error(`disksweep run exited with ${code}; stderr ends:\n${stderrTail}`);
+    const step = Math.max(1, Math.floor(all.length / 10));
+    return {
+      command: `disksweep run <${o.points}-point random plan> --workers ${o.workers} (DISKSWEEP_MODEL_MODULE=noop-model.js)`,
+      points_planned: o.points,
+      points_done: committed,
+      finished: code === 0 && committed === o.points,
+      exit_code: code,
+      wall_s: sig(wallS, 3),
+      points_per_s: sig(committed / wallS),
+      peak_rss_mb: sig(peakKb / 1024, 3),
+      rss_slope_mb_per_100k_points: (() => {
+        const s = slope(all);
+        return s === null ? null : sig(s, 2);
+      })(),
+      samples: all.filter((_, i) => i % step === 0 || i === all.length - 1).map((s) => ({ t_s: sig(s.t_s, 3), done: s.done, rss_mb: sig(s.rss_mb, 3) })),
+    };
+  });
+}

@@ -1,0 +1,151 @@
+/**
+ * The sweep runner over any transport, with a real store: chunk k is always the index range [k·size,
+ * (k+1)·size); a resumed chunk holds only its missing points under the same chunk index; an interrupted run
+ * submits nothing new and what it committed is not run again; repeated deliveries count once; a result whose
+ * point id does not match its index is stored as an infrastructure failure.
+ */
+import { describe, expect, it } from 'vitest';
+import { canonicalJson, contentHash } from '../../../shared/hashing.js';
+import type { ChunkOutcomePayload, ChunkTaskPayload } from '../../../shared/job-payload.js';
+import { parseModelParams } from '../../../shared/model-params.js';
+import type { ModelResult } from '../../../shared/model-result.js';
+import { MODEL_VERSION } from '../../../shared/model-version.js';
+import { runValidatedModel } from '../../../worker/model.js';
+import { parseSpecText } from '../../../orchestrator/spec/load-spec.js';
+import { openStore, type SweepStore } from '../../../orchestrator/store/index.js';
+import { planSweep, type SweepPlan } from '../../../orchestrator/sweep/sweep-plan.js';
+import { buildChunk, chunkCount, runSweep } from '../../../orchestrator/sweep/sweep-runner.js';
+import type { CommitOutcome, Transport } from '../../../orchestrator/transport/transport.js';
+import { resultsPerPoint, statusByIndex } from '../../support/sweep-db.js';
+import { gridSpec } from '../../support/sweep-specs.js';
+import { useTempDir } from '../../support/temp-dir.js';
+
+const tmp = useTempDir();
+
+const plan: SweepPlan = planSweep(parseSpecText(JSON.stringify(gridSpec('runner', 5, 5, 4)), 'test.json', 'json'));
+const CHUNK = 4;
+const sample: ModelResult = runValidatedModel(parseModelParams({ initial_state: 'disk', n_cells: 40, t_end_myr: 0.2, checkpoints_myr: [0.1, 0.2] }));
+
+function newStore(): SweepStore {
+  const store = openStore(tmp.file('runner.sqlite'), { mode: 'write' });
+  store.registerSweep({
+    sweepId: plan.sweepId, name: plan.spec.name, specJson: canonicalJson(plan.spec), specHash: contentHash(plan.spec),
+    modelVersion: MODEL_VERSION, nPoints: plan.source.size, chunkSize: CHUNK,
+  });
+  return store;
+}
+
+interface Scripted extends Transport {
+  readonly submitted: ChunkTaskPayload[];
+}
+
+/** Answers every chunk at once with `sample`; `deliver` may alter or repeat the outcome. */
+function scriptedTransport(deliver: (o: ChunkOutcomePayload, commit: CommitOutcome) => Promise<void> = (o, c) => c(o)): Scripted {
+  let commit: CommitOutcome | null = null;
+  const submitted: ChunkTaskPayload[] = [];
+  return {
+    description: 'scripted',
+    window: 2,
+    submitted,
+    onOutcome(fn) {
+      commit = fn;
+    },
+    async submit(chunk) {
+      submitted.push(chunk);
+      if (commit === null) throw new Error('onOutcome was not called before submit');
+      await deliver({
+        sweep_id: chunk.sweep_id, chunk_index: chunk.chunk_index, worker_host: 'scripted-host',
+        points: chunk.points.map((p) => ({ point_index: p.point_index, point_id: p.point_id, outcome: { kind: 'model' as const, result: sample } })),
+      }, commit);
+    },
+    pending: () => 0,
+    async close() {},
+  };
+}
+
+const indexesOf = (chunk: ChunkTaskPayload): number[] => chunk.points.map((p) => p.point_index);
+
+describe('buildChunk', () => {
+  const none = new Uint8Array(plan.source.size);
+
+  it('chunk k is the index range [k·size, (k+1)·size), the last one shorter', () => {
+    expect(chunkCount(25, 4)).toBe(7);
+    const input = { sweepId: plan.sweepId, chunkSize: CHUNK, source: plan.source, hasResult: none };
+    expect(buildChunk(input, 0)).toMatchObject({ sweep_id: plan.sweepId, chunk_index: 0 });
+    expect(indexesOf(buildChunk(input, 0) ?? fail())).toEqual([0, 1, 2, 3]);
+    expect(indexesOf(buildChunk(input, 2) ?? fail())).toEqual([8, 9, 10, 11]);
+    expect(indexesOf(buildChunk(input, 6) ?? fail())).toEqual([24]);
+    for (const p of (buildChunk(input, 2) ?? fail()).points) expect(p).toEqual({ point_index: p.point_index, point_id: plan.source.taskAt(p.point_index).pointId, params: plan.source.taskAt(p.point_index).params });
+  });
+
+  it('a partly done chunk holds only its missing points and keeps its index; a done chunk is skipped', () => {
+    const has = new Uint8Array(plan.source.size);
+    has.set([1, 0, 1, 0, 1, 1, 1, 1], 4);
+    const input = { sweepId: plan.sweepId, chunkSize: CHUNK, source: plan.source, hasResult: has };
+    expect(buildChunk(input, 1)).toMatchObject({ chunk_index: 1 });
+    expect(indexesOf(buildChunk(input, 1) ?? fail())).toEqual([5, 7]);
+    expect(buildChunk(input, 2)).toBeNull();
+  });
+});
+
+function fail(): never {
+  throw new Error('expected a chunk');
+}
+
+describe('runSweep', () => {
+  it('an interrupted run stops submitting; the resumed run submits exactly the rest, on the same boundaries', async () => {
+    const store = newStore();
+    const controller = new AbortController();
+    const first = scriptedTransport();
+    const r1 = await runSweep({
+      sweepId: plan.sweepId, chunkSize: CHUNK, source: plan.source, hasResult: store.pointIndexesWithResult(plan.sweepId),
+      store, transport: first, signal: controller.signal,
+      onProgress: (c) => {
+        if (c.committed >= 3 * CHUNK) controller.abort();
+      },
+    });
+    expect(r1).toMatchObject({ interrupted: true, committed: 12, done: 12, total: 25, failed: 0 });
+    expect(first.submitted.map((c) => c.chunk_index)).toEqual([0, 1, 2]);
+    expect([...statusByIndex(store.file).keys()].sort((a, b) => a - b)).toEqual([...Array(12).keys()]);
+
+    // Point 13 got its result some other way (another sweep's reuse, say): chunk 3 is resumed without it.
+    store.writeResults([{ sweepId: plan.sweepId, pointId: plan.source.taskAt(13).pointId, pointIndex: 13, params: plan.source.taskAt(13).params, outcome: { kind: 'model', result: sample }, workerHost: 'elsewhere' }]);
+    const second = scriptedTransport();
+    const r2 = await runSweep({
+      sweepId: plan.sweepId, chunkSize: CHUNK, source: plan.source, hasResult: store.pointIndexesWithResult(plan.sweepId), store, transport: second,
+    });
+    expect(r2).toMatchObject({ interrupted: false, committed: 12, done: 25, total: 25 });
+    expect(second.submitted.map((c) => [c.chunk_index, indexesOf(c)])).toEqual([
+      [3, [12, 14, 15]], [4, [16, 17, 18, 19]], [5, [20, 21, 22, 23]], [6, [24]],
+    ]);
+    store.close();
+    expect(resultsPerPoint(tmp.file('runner.sqlite'))).toEqual({ points: 25, results: 25, maxPerPoint: 1 });
+  });
+
+  it('counts a chunk delivered twice once', async () => {
+    const store = newStore();
+    const twice = scriptedTransport(async (o, commit) => {
+      await commit(o);
+      await commit(o);
+    });
+    const r = await runSweep({ sweepId: plan.sweepId, chunkSize: CHUNK, source: plan.source, hasResult: store.pointIndexesWithResult(plan.sweepId), store, transport: twice });
+    expect(r).toMatchObject({ done: 25, committed: 25, failed: 0, interrupted: false });
+    store.close();
+    expect(resultsPerPoint(tmp.file('runner.sqlite'))).toEqual({ points: 25, results: 25, maxPerPoint: 1 });
+  });
+
+  it('stores a result whose point id does not match its index as an infrastructure failure', async () => {
+    const store = newStore();
+    const swapped = scriptedTransport((o, commit) => commit({
+      ...o,
+      points: o.points.map((p) => (p.point_index === 6 ? { ...p, point_id: plan.source.taskAt(7).pointId } : p)),
+    }));
+    const r = await runSweep({ sweepId: plan.sweepId, chunkSize: CHUNK, source: plan.source, hasResult: store.pointIndexesWithResult(plan.sweepId), store, transport: swapped });
+    expect(r).toMatchObject({ done: 25, failed: 1 });
+    store.close();
+    const status = statusByIndex(tmp.file('runner.sqlite'));
+    expect(status.get(6)?.status).toBe('infrastructure_error');
+    expect(status.get(6)?.reason).toContain('point id mismatch');
+    expect(status.get(7)?.status).toBe('ok');
+  });
+});
