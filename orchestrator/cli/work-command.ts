@@ -6,7 +6,6 @@ import { Command, Option } from 'commander';
 import { z } from 'zod';
 import { DisksweepError } from '../../shared/errors.js';
 import { defaultThreadCount } from '../../worker/chunk-pool.js';
-import { startQueueWorker } from '../../worker/queue-worker.js';
 import { redact } from '../transport/redis-connection.js';
 import { redisOptions, redisSettings, type RedisFlags } from './redis-flags.js';
 
@@ -22,6 +21,7 @@ async function workAction(opts: WorkFlags): Promise<number> {
     if (!r.success) throw new DisksweepError('input/invalid-flag', `--concurrency: expected a whole number from 1 to 1024 (got "${opts.concurrency}")`);
     threads = r.data;
   }
+  const { startQueueWorker } = await import('../../worker/queue-worker.js'); // BullMQ loads only for this command
   const worker = await startQueueWorker({
     target: settings.target, threads, lockMs: settings.lockMs, stalledMs: settings.stalledMs, log, verbose: opts.verbose === true,
     // Tests pretend to be a worker of another model version; nothing else sets this.
