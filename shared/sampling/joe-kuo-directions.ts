@@ -4,12 +4,12 @@
  * 2635–2654, file `new-joe-kuo-6.21201` (search criterion D^(6), their recommended set; published at
  * https://web.maths.unsw.edu.au/~fkuo/sobol/, BSD licence, copyright 2008 Frances Y. Kuo and Stephen Joe).
  *
- * Transcribed by hand, rows d = 2 … 40, as `[s, a, m_1 … m_s]`:
+ * Copied by hand, rows d = 2 … 40, as `[s, a, m_1 … m_s]`:
  *   s  the degree of the primitive polynomial x^s + c_1 x^(s-1) + … + c_(s-1) x + 1 over GF(2),
  *   a  its inner coefficients c_1 … c_(s-1) as the bits of one integer (c_1 is the most significant),
  *   m  the s initial direction numbers (each m_k odd and below 2^k).
  * Dimension 1 has no row: it is the van der Corput sequence in base 2 (every m_k = 1).
- * The transcription was compared with three independent public copies of the table before it was committed.
+ * The copy was compared with three independent public copies of the table before it was committed.
  */
 
 /** One row of the table: degree, coefficient bits and initial direction numbers. */

@@ -2,7 +2,7 @@
  * The one entry point: dimensions (in spec order) and a sampling spec in, a SamplingPlan out. Checks what the
  * samplers need and reports it as an input error naming the field: ranges that are finite and increasing
  * (and positive for log), a count for every grid range, and each plan's limits (Sobol: the dimensions the
- * transcribed direction table covers). A range's `count` belongs to grids; the other plans ignore it.
+ * hand-copied direction table covers). A range's `count` belongs to grids; the other plans ignore it.
  */
 import { DisksweepError } from '../errors.js';
 import type { Dimension, SamplingSpec } from '../sweep-spec.js';

@@ -1,6 +1,6 @@
 /**
  * Sobol plan: published first points, the properties a (t, s)-sequence in base 2 must have, and checks of
- * the transcribed Joe & Kuo table that do not come from the table itself.
+ * the hand-copied Joe & Kuo table that do not come from the table itself.
  */
 import { describe, expect, it } from 'vitest';
 import { makeSamplingPlan, SOBOL_MAX_DIMENSIONS } from '../../../shared/sampling/index.js';
@@ -154,7 +154,7 @@ describe('Sobol: (t, s)-sequence properties', () => {
   });
 });
 
-describe('Sobol: transcribed direction table', () => {
+describe('Sobol: hand-copied direction table', () => {
   /** Order of x modulo the GF(2) polynomial with bit pattern `poly` (degree s); primitive iff it is 2^s − 1. */
   function isPrimitive(poly: number, s: number): boolean {
     const period = 2 ** s - 1;
