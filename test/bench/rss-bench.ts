@@ -3,10 +3,12 @@
  * random plan of 10^6 no-op points (DISKSWEEP_MODEL_MODULE = noop-model.js, chunk size calibrated as a user
  * would get it), into a temporary database. Its resident set is sampled from /proc/<pid>/status (VmRSS, and
  * VmHWM, the kernel's peak) while the progress lines on stderr say how far it is. If the sweep would not finish
- * inside the time budget, the run is interrupted with SIGINT (it finishes its chunks in flight and exits 130)
- * and the report says how many points were done: the trend of RSS against points done is then the evidence
+ * inside the time budget, it is sent SIGINT (it should finish its chunks in flight and exit 130), and SIGKILL
+ * if it is still running SIGINT_GRACE_MS later; the report says which happened and how many results were
+ * committed (counted in the database afterwards). The trend of RSS against points done is then the evidence
  * for "bounded", not a finished run.
  */
+import Database from 'better-sqlite3';
 import { spawn } from 'node:child_process';
 import { readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
@@ -17,6 +19,8 @@ import { withTempDirAsync } from './temp-files.js';
 
 const CLI_PATH = fileURLToPath(new URL('../../orchestrator/cli/main.js', import.meta.url));
 const SAMPLE_MS = 250;
+/** After SIGINT, how long the run may take to stop before it is killed. */
+const SIGINT_GRACE_MS = 15_000;
 
 export interface RssOptions {
   readonly points: number;
@@ -37,6 +41,9 @@ export interface RssReport {
   points_done: number;
   finished: boolean;
   exit_code: number | null;
+  /** Whether the run was sent SIGINT (budget reached), and whether it then exited on its own in time. */
+  sigint_sent: boolean;
+  sigint_stopped_it: boolean | null;
   wall_s: number;
   points_per_s: number;
   /** Largest VmHWM read (the kernel's own peak of the resident set). */
@@ -80,19 +87,23 @@ export async function benchOrchestratorRss(o: RssOptions): Promise<RssReport> {
     });
     const pid = child.pid;
     if (pid === undefined) throw new Error('could not start disksweep run');
-    let stdout = '';
     let stderrTail = '';
     let done = 0;
-    child.stdout.setEncoding('utf8').on('data', (s: string) => (stdout += s));
+    child.stdout.resume(); // the --json summary is not needed: results are counted in the database
     child.stderr.setEncoding('utf8').on('data', (s: string) => {
       stderrTail = (stderrTail + s).slice(-4000);
       for (const m of s.matchAll(/: (\d+)\/\d+ done/g)) done = Number(m[1]);
     });
-    const exited = new Promise<number | null>((resolve) => child.on('exit', (code) => resolve(code)));
+    let alive = true;
+    const exited = new Promise<number | null>((resolve) => child.on('exit', (code) => {
+      alive = false;
+      resolve(code);
+    }));
     const t0 = performance.now();
     const all: Sample[] = [];
     let peakKb = 0;
     let interrupted = false;
+    let killed = false;
     const timer = setInterval(() => {
       const rss = statusKb(pid, 'VmRSS');
       peakKb = Math.max(peakKb, statusKb(pid, 'VmHWM') ?? 0);
@@ -101,16 +112,21 @@ export async function benchOrchestratorRss(o: RssOptions): Promise<RssReport> {
         interrupted = true;
         progress(`orchestrator_rss: budget reached at ${done} points: SIGINT (finishing the chunks in flight)`);
         child.kill('SIGINT');
-        setTimeout(() => child.kill('SIGKILL'), 60_000).unref();
+        setTimeout(() => {
+          if (!alive) return;
+          killed = true;
+          progress(`orchestrator_rss: still running ${SIGINT_GRACE_MS / 1000} s after SIGINT (at ${done} points): SIGKILL`);
+          child.kill('SIGKILL');
+        }, SIGINT_GRACE_MS).unref();
       }
     }, SAMPLE_MS);
     const code = await exited;
     clearInterval(timer);
     const wallS = (performance.now() - t0) / 1000;
-    const summary = /\{.*\}/s.exec(stdout);
-    const parsed: unknown = summary === null ? null : JSON.parse(summary[0]);
-    const committed = typeof parsed === 'object' && parsed !== null && 'done' in parsed && typeof parsed.done === 'number' ? parsed.done : done;
-    if (code !== 0 && code !== 130) throw new Error(`disksweep run exited with ${code}; stderr ends:\n${stderrTail}`);
+    if (!killed && code !== 0 && code !== 130) throw new Error(`disksweep run exited with ${code}; stderr ends:\n${stderrTail}`);
+    const raw = new Database(join(dir, 'million.sqlite'), { readonly: true });
+    const committed = raw.prepare('SELECT count(*) FROM results').pluck().get() as number;
+    raw.close();
     const step = Math.max(1, Math.floor(all.length / 10));
     return {
       command: `disksweep run <${o.points}-point random plan> --workers ${o.workers} (DISKSWEEP_MODEL_MODULE=noop-model.js)`,
@@ -118,6 +134,8 @@ export async function benchOrchestratorRss(o: RssOptions): Promise<RssReport> {
       points_done: committed,
       finished: code === 0 && committed === o.points,
       exit_code: code,
+      sigint_sent: interrupted,
+      sigint_stopped_it: interrupted ? !killed : null,
       wall_s: sig(wallS, 3),
       points_per_s: sig(committed / wallS),
       peak_rss_mb: sig(peakKb / 1024, 3),

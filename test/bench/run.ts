@@ -10,6 +10,8 @@
  *   ionization       the default model with active_layer = ionization (models/s/core; status), a variant without
  *                    the thermal switch that ends ok, the share of model time spent in the ionization kernel
  *                    (replay), and the refresh-tolerance accuracy check (ionization-bench.ts)
+ *   sqlite_ingest, sweep_parallel_efficiency, noop_overhead, orchestrator_rss
+ *                    the store and the sweep machinery (system-bench.ts)
  * The JS and C step loops run in alternating rounds, so a load spike on a shared machine hits both alike.
  */
 import { arch, availableParallelism, cpus, loadavg, platform } from 'node:os';
@@ -25,6 +27,7 @@ import { makeStepTimer, type StepCaseName, type StepSamples } from './implicit-s
 import { benchIonizationShare, benchRefreshAccuracy } from './ionization-bench.js';
 import { benchModel, type ModelBenchResult } from './model-bench.js';
 import { median, progress, quantile, sig } from './stats.js';
+import { benchSystem } from './system-bench.js';
 
 const GOALS = { default_model_ms_target: 100, js_over_c_target: 1.5 } as const;
 /** Relative agreement C and JS must reach on every number of the check solve. */
@@ -131,7 +134,7 @@ function benchSteps(ref: CompiledReference | null): { js: Record<SizeKey, StepRe
   return { js, c };
 }
 
-function main(): void {
+async function main(): Promise<void> {
   const started = performance.now();
   const loadStart = loadavg()[0];
 
@@ -182,6 +185,8 @@ function main(): void {
     refresh_accuracy_disk: benchRefreshAccuracy({ initial_state: 'disk', active_layer: 'ionization', kappa_cm2_g: 0 }),
   };
 
+  const system = await benchSystem();
+
   const ratios = c.ratio_js_over_c === null ? [] : Object.values(c.ratio_js_over_c);
   const worst = ratios.length === 0 ? null : Math.max(...ratios);
   const cpuList = cpus();
@@ -194,6 +199,7 @@ function main(): void {
       ...implicit,
     },
     c_reference: c,
+    ...system.sections,
     machine: {
       node: process.version,
       v8: process.versions.v8,
@@ -214,10 +220,11 @@ function main(): void {
       default_model_ionization_ms_met: ionDefault.status === 'ok' && ionDefault.median_ms <= GOALS.default_model_ms_target,
       js_over_c_worst: worst,
       js_over_c_met: worst === null ? null : worst <= GOALS.js_over_c_target,
+      ...system.goals,
     },
     bench_wall_s: sig((performance.now() - started) / 1000, 3),
   };
   process.stdout.write(`${JSON.stringify(report, null, 2)}\n`);
 }
 
-main();
+await main();
