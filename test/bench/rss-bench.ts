@@ -27,6 +27,8 @@ export interface RssOptions {
   /** Interrupt the sweep (SIGINT) when it has run this long. */
   readonly budgetMs: number;
   readonly workers: number;
+  /** Points per chunk; default: calibrated by `run` itself, as a user gets it. */
+  readonly chunk?: number;
 }
 
 interface Sample {
@@ -39,6 +41,8 @@ export interface RssReport {
   command: string;
   points_planned: number;
   points_done: number;
+  /** As `run` reported it ("... in N chunks of SIZE"). */
+  chunk_size: number | null;
   finished: boolean;
   exit_code: number | null;
   /** Whether the run was sent SIGINT (budget reached), and whether it then exited on its own in time. */
@@ -78,7 +82,7 @@ function slope(samples: readonly Sample[]): number | null {
 export async function benchOrchestratorRss(o: RssOptions): Promise<RssReport> {
   return withTempDirAsync('disksweep-bench-rss-', async (dir) => {
     const specFile = join(dir, 'million.json');
-    writeFileSync(specFile, JSON.stringify(noopSpec('bench-rss', o.points, 'calibrate')));
+    writeFileSync(specFile, JSON.stringify(noopSpec('bench-rss', o.points, o.chunk ?? 'calibrate')));
     const args = [CLI_PATH, 'run', specFile, '--db', join(dir, 'million.sqlite'), '--workers', String(o.workers), '--json'];
     progress(`orchestrator_rss: disksweep run on ${o.points} no-op points (budget ${o.budgetMs / 1000} s)`);
     const child = spawn(process.execPath, args, {
@@ -89,10 +93,13 @@ export async function benchOrchestratorRss(o: RssOptions): Promise<RssReport> {
     if (pid === undefined) throw new Error('could not start disksweep run');
     let stderrTail = '';
     let done = 0;
+    let chunk: number | null = null;
     child.stdout.resume(); // the --json summary is not needed: results are counted in the database
     child.stderr.setEncoding('utf8').on('data', (s: string) => {
       stderrTail = (stderrTail + s).slice(-4000);
       for (const m of s.matchAll(/: (\d+)\/\d+ done/g)) done = Number(m[1]);
+      const size = / chunks of (\d+)/.exec(s);
+      if (size !== null) chunk = Number(size[1]);
     });
     let alive = true;
     const exited = new Promise<number | null>((resolve) => child.on('exit', (code) => {
@@ -129,7 +136,8 @@ export async function benchOrchestratorRss(o: RssOptions): Promise<RssReport> {
     raw.close();
     const step = Math.max(1, Math.floor(all.length / 10));
     return {
-      command: `disksweep run <${o.points}-point random plan> --workers ${o.workers} (DISKSWEEP_MODEL_MODULE=noop-model.js)`,
+      command: `disksweep run <${o.points}-point random plan, chunks ${o.chunk ?? 'calibrated'}> --workers ${o.workers} (DISKSWEEP_MODEL_MODULE=noop-model.js)`,
+      chunk_size: chunk,
       points_planned: o.points,
       points_done: committed,
       finished: code === 0 && committed === o.points,

@@ -92,6 +92,24 @@ export const EFFICIENCY_SPEC = {
   chunks: { size: 2 },
 } as const;
 
+/**
+ * Time for a fresh pool to start its threads (each loads the disk model) and run one tiny real model per
+ * thread: the one-off cost inside the efficiency sweep's wall time that a long sweep amortises.
+ */
+export async function poolStartMs(threads: number): Promise<number> {
+  const spec = { ...EFFICIENCY_SPEC, name: 'bench-pool-start', model: { n_cells: 16, t_end_myr: 0.001 } };
+  const plan = planSweep(parseSpecText(JSON.stringify(spec), 'bench spec', 'json'));
+  const t0 = performance.now();
+  const transport = createEmbeddedTransport({ threads });
+  transport.onOutcome(async () => {});
+  for (let i = 0; i < threads; i++) {
+    const t = plan.source.taskAt(i);
+    await transport.submit({ sweep_id: plan.sweepId, chunk_index: i, points: [{ point_index: i, point_id: t.pointId, params: t.params }] });
+  }
+  await transport.close('graceful');
+  return performance.now() - t0;
+}
+
 export interface EfficiencyReport {
   spec: typeof EFFICIENCY_SPEC;
   threads: number;
@@ -102,6 +120,10 @@ export interface EfficiencyReport {
   model_ms_sum: number;
   sweep_wall_ms: number;
   efficiency: number;
+  /** A separate fresh pool's start-up plus one tiny model per thread (see poolStartMs). */
+  pool_start_ms: number;
+  /** The same ratio with pool_start_ms taken off the sweep wall time: the rate a long sweep settles at. */
+  efficiency_after_start: number;
   /** Mean of results.wall_ms over the sweep's points. */
   mean_model_ms: number;
 }
@@ -109,6 +131,7 @@ export interface EfficiencyReport {
 export async function benchParallelEfficiency(threads = 2): Promise<EfficiencyReport> {
   progress(`sweep_parallel_efficiency: ${threads}-thread embedded sweep of 64 real models`);
   const r = await runSweepInProcess(EFFICIENCY_SPEC, threads, null);
+  const startMs = await poolStartMs(threads);
   return {
     spec: EFFICIENCY_SPEC,
     threads,
@@ -119,6 +142,8 @@ export async function benchParallelEfficiency(threads = 2): Promise<EfficiencyRe
     model_ms_sum: sig(r.modelMsSum),
     sweep_wall_ms: sig(r.wallS * 1000),
     efficiency: sig(r.modelMsSum / (threads * r.wallS * 1000), 3),
+    pool_start_ms: sig(startMs, 3),
+    efficiency_after_start: sig(r.modelMsSum / (threads * (r.wallS * 1000 - startMs)), 3),
     mean_model_ms: sig(r.modelMsSum / r.points),
   };
 }
