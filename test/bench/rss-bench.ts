@@ -20,7 +20,7 @@ import { withTempDirAsync } from './temp-files.js';
 const CLI_PATH = fileURLToPath(new URL('../../orchestrator/cli/main.js', import.meta.url));
 const SAMPLE_MS = 250;
 /** After SIGINT, how long the run may take to stop before it is killed. */
-const SIGINT_GRACE_MS = 15_000;
+const SIGINT_GRACE_MS = 10_000;
 
 export interface RssOptions {
   readonly points: number;
@@ -52,8 +52,9 @@ export interface RssReport {
   points_per_s: number;
   /** Largest VmHWM read (the kernel's own peak of the resident set). */
   peak_rss_mb: number;
-  /** Least-squares slope of VmRSS against points done, over the second half of the samples. */
-  rss_slope_mb_per_100k_points: number | null;
+  /** Largest VmRSS while the first half of points_done was run, and while the second half was. */
+  rss_max_first_half_mb: number | null;
+  rss_max_second_half_mb: number | null;
   /** RSS at about every tenth of the run. */
   samples: Sample[];
 }
@@ -67,16 +68,11 @@ function statusKb(pid: number, field: 'VmRSS' | 'VmHWM'): number | null {
   }
 }
 
-function slope(samples: readonly Sample[]): number | null {
-  const half = samples.slice(Math.floor(samples.length / 2));
-  if (half.length < 3) return null;
-  const n = half.length;
-  const mx = half.reduce((a, s) => a + s.done, 0) / n;
-  const my = half.reduce((a, s) => a + s.rss_mb, 0) / n;
-  const sxx = half.reduce((a, s) => a + (s.done - mx) ** 2, 0);
-  if (sxx === 0) return null;
-  const sxy = half.reduce((a, s) => a + (s.done - mx) * (s.rss_mb - my), 0);
-  return (sxy / sxx) * 100_000;
+/** Largest VmRSS in the first and in the second half of the run (by points done): equal-ish when bounded. */
+function halves(samples: readonly Sample[]): { first: number | null; second: number | null } {
+  const last = samples.length === 0 ? 0 : samples[samples.length - 1].done;
+  const max = (xs: readonly Sample[]): number | null => (xs.length === 0 ? null : sig(Math.max(...xs.map((x) => x.rss_mb)), 3));
+  return { first: max(samples.filter((x) => x.done <= last / 2)), second: max(samples.filter((x) => x.done > last / 2)) };
 }
 
 export async function benchOrchestratorRss(o: RssOptions): Promise<RssReport> {
@@ -147,10 +143,8 @@ export async function benchOrchestratorRss(o: RssOptions): Promise<RssReport> {
       wall_s: sig(wallS, 3),
       points_per_s: sig(committed / wallS),
       peak_rss_mb: sig(peakKb / 1024, 3),
-      rss_slope_mb_per_100k_points: (() => {
-        const s = slope(all);
-        return s === null ? null : sig(s, 2);
-      })(),
+      rss_max_first_half_mb: halves(all).first,
+      rss_max_second_half_mb: halves(all).second,
       samples: all.filter((_, i) => i % step === 0 || i === all.length - 1).map((s) => ({ t_s: sig(s.t_s, 3), done: s.done, rss_mb: sig(s.rss_mb, 3) })),
     };
   });
