@@ -134,15 +134,23 @@ export const PARAMS = {
   lx_erg_s: num({
     unit: 'erg s^-1', default: 1e30, min: 0, max: 1e33,
     description:
-      'active_layer=ionization: stellar X-ray luminosity (thermal 5 keV spectrum); ionization from the Bai & Goodman ' +
+      'active_layer=ionization: stellar X-ray luminosity (spectrum: xray_spectrum); ionization from the Bai & Goodman ' +
       '(2009) fit to Igea & Glassgold (1999), proportional to L_X and to (r/AU)^-2.2, from both faces. 0 = no X-rays.',
     source: 'common practice: young solar-mass stars have L_X ~ 1e29-1e31 erg/s (Preibisch et al. 2005; from memory)',
+  }),
+  xray_spectrum: choice({
+    choices: ['5kev', '3kev'],
+    default: '5kev',
+    description:
+      'active_layer=ionization: temperature kT_X of the thermal X-ray spectrum, picking the coefficient row of the ' +
+      'Bai & Goodman (2009, eq. 21) fit: "5kev" or "3kev" (the harder spectrum reaches deeper columns).',
   }),
   zeta_cr_s: num({
     unit: 's^-1', default: 1e-17, min: 0, max: 1e-13,
     description:
-      'active_layer=ionization: interstellar cosmic-ray ionization rate per H2; each face gives half of it, ' +
-      'attenuated as exp(-Sigma_face/96 g cm^-2) (Umebayashi & Nakano 1981). Lower it where stellar winds exclude cosmic rays.',
+      'active_layer=ionization: interstellar cosmic-ray ionization rate per H2; each face gives all of it, ' +
+      'attenuated as exp(-Sigma_face/96 g cm^-2) (Umebayashi & Nakano 1981), and the faces add. Lower it where ' +
+      'stellar winds exclude cosmic rays.',
     source: 'Umebayashi & Nakano 1981',
   }),
   zeta_al26_s: num({

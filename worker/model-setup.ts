@@ -15,7 +15,7 @@ import { SOUND_SPEED2_PER_K, irradiationTemperature4 } from './kernels/disk/ther
 import { ionizationActiveLayer, type IonizationLayerOptions } from './kernels/ionization/ionization-active-layer.js';
 import { AL26_MEAN_LIFE_MYR } from './kernels/ionization/radionuclide-rate.js';
 import { ALKALI_METALS } from './kernels/ionization/saha.js';
-import { XRAY_FIT_5KEV, prepareXrayFit } from './kernels/ionization/xray-rate.js';
+import { XRAY_FIT_3KEV, XRAY_FIT_5KEV, prepareXrayFit } from './kernels/ionization/xray-rate.js';
 
 /** Window over which `mdot_star_avg_msun_yr` averages the accretion rate, s. */
 export const MDOT_AVERAGE_WINDOW_S = yrToS(1e4);
@@ -82,7 +82,7 @@ export function ionizationOptionsFromParams(p: ModelParams, nCells: number): Ion
     nCells,
     sources: {
       lxErgS: p.lx_erg_s,
-      xrayFit: prepareXrayFit(XRAY_FIT_5KEV),
+      xrayFit: prepareXrayFit(p.xray_spectrum === '3kev' ? XRAY_FIT_3KEV : XRAY_FIT_5KEV),
       zetaCr: p.zeta_cr_s,
       fuvColumn: p.sigma_fuv_face_g_cm2,
       fuvXe: p.x_e_fuv,

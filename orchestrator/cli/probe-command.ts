@@ -18,7 +18,7 @@ ionization rate by source (stellar X-rays, cosmic rays, radionuclides), electron
 diffusivity eta, the activity number (magnetic Reynolds or Ohmic Elsasser number) and whether the gas is
 MRI-active; then the active column Sigma_a per face and in total, and the Sigma_a the disk model's layered
 transport would use for this column. The ionization parameters are the model's (see disksweep model --list):
-lx_erg_s, zeta_cr_s, zeta_al26_s, zeta_k40_s, sigma_fuv_face_g_cm2, x_e_fuv, ion_chemistry, x_metal,
+lx_erg_s, xray_spectrum, zeta_cr_s, zeta_al26_s, zeta_k40_s, sigma_fuv_face_g_cm2, x_e_fuv, ion_chemistry, x_metal,
 thermal_ionization, t_mri_k, t_mri_halfwidth_k, mri_criterion, reynolds_crit, elsasser_crit, beta_midplane,
 n_z, sigma_ion_floor_g_cm2.
 

@@ -19,7 +19,7 @@ const probe = (rAu: number, extra: Record<string, unknown> = {}) => runProbe(par
 describe('layered accretion in the minimum-mass solar nebula (Gammie 1996; Hayashi 1981)', () => {
   it('at 1 AU the active layer holds 100-1000 g cm^-2 per face over a dead midplane', () => {
     const r = probe(1);
-    // Measured: 303 g cm^-2 per face (Gammie 1996 takes ~100 g cm^-2, the cosmic-ray stopping column).
+    // Measured: 360 g cm^-2 per face (each face gives the full attenuated zeta_CR) (Gammie 1996 takes ~100 g cm^-2, the cosmic-ray stopping column).
     expect(r.sigma_active_face_g_cm2).toBeGreaterThan(100);
     expect(r.sigma_active_face_g_cm2).toBeLessThan(1000);
     expect(r.midplane_dead).toBe(true);

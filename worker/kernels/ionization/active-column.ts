@@ -27,7 +27,7 @@ export interface IonizationSources {
   /** Stellar X-ray luminosity, erg s^-1 (0 switches X-rays off). */
   readonly lxErgS: number;
   readonly xrayFit: PreparedXrayFit;
-  /** Interstellar cosmic-ray rate ζ_CR, s^-1 (each face gives half; cosmic-ray-rate.ts). */
+  /** Interstellar cosmic-ray rate ζ_CR, s^-1 (each face gives the full attenuated rate; cosmic-ray-rate.ts). */
   readonly zetaCr: number;
   /** Radionuclide rate at the current time, s^-1. */
   readonly zetaRadio: number;

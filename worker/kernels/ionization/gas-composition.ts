@@ -17,9 +17,6 @@ import { M_HYDROGEN_CGS } from '../../../shared/constants.js';
 export const MASS_PER_H_NUCLEUS_CGS = 1.4 * M_HYDROGEN_CGS;
 /** Mass per H₂ molecule including its share of helium, g (2.8 m_H). */
 export const MASS_PER_H2_CGS = 2.8 * M_HYDROGEN_CGS;
-/** Ionization rate per H₂ from a rate per H nucleus. */
-export const PER_H_TO_PER_H2 = 2;
-
 /** n_H₂ in cm^-3 from ρ in g cm^-3. */
 export function h2NumberDensity(rho: number): number {
   return rho / MASS_PER_H2_CGS;

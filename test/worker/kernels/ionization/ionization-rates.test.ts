@@ -9,45 +9,52 @@ import { cosmicRayRate, cosmicRayRateFace } from '../../../../worker/kernels/ion
 import { fuvElectronFraction } from '../../../../worker/kernels/ionization/fuv-layer.js';
 import { hydrogenColumn } from '../../../../worker/kernels/ionization/gas-composition.js';
 import { AL26_MEAN_LIFE_MYR, radionuclideRate } from '../../../../worker/kernels/ionization/radionuclide-rate.js';
-import { XRAY_FIT_5KEV, prepareXrayFit, xrayRate, xrayRateFace, xrayScale } from '../../../../worker/kernels/ionization/xray-rate.js';
+import { XRAY_FIT_3KEV, XRAY_FIT_5KEV, prepareXrayFit, xrayRate, xrayRateFace, xrayScale } from '../../../../worker/kernels/ionization/xray-rate.js';
 
 const rel = (a: number, b: number): number => Math.abs(a - b) / Math.abs(b);
 
 describe('cosmic rays (Umebayashi & Nakano 1981)', () => {
   const zetaCr = 1e-17;
-  it('the rate from one face at a face column of 96 g cm^-2 is that face\'s rate at the surface / e', () => {
-    // Each face carries half the interstellar rate (it sees half the sky): ζ_face(0) = ζ_CR/2.
-    expect(cosmicRayRateFace(zetaCr, 0)).toBe(zetaCr / 2);
-    expect(rel(cosmicRayRateFace(zetaCr, 96), zetaCr / 2 / Math.E)).toBeLessThan(1e-15);
-    expect(rel(cosmicRayRateFace(zetaCr, 192), zetaCr / 2 / Math.E ** 2)).toBeLessThan(1e-15);
+  it('the rate from one face at a face column of 96 g cm^-2 is zeta_CR/e for that face', () => {
+    // Convention (cosmic-ray-rate.ts): each face gives the full attenuated interstellar rate.
+    expect(cosmicRayRateFace(zetaCr, 0)).toBe(zetaCr);
+    expect(rel(cosmicRayRateFace(zetaCr, 96), zetaCr / Math.E)).toBeLessThan(1e-15);
+    expect(rel(cosmicRayRateFace(zetaCr, 192), zetaCr / Math.E ** 2)).toBeLessThan(1e-15);
   });
 
-  it('a thin column lit from both faces gets the full interstellar rate; a thick one is shielded', () => {
-    expect(rel(cosmicRayRate(zetaCr, 0, 1e-6), zetaCr)).toBeLessThan(1e-7);
+  it('the two faces add: a thin column gets 2 zeta_CR; a thick one is shielded', () => {
+    expect(rel(cosmicRayRate(zetaCr, 0, 1e-6), 2 * zetaCr)).toBeLessThan(1e-7);
+    expect(rel(cosmicRayRate(zetaCr, 96, 96 * 3), zetaCr / Math.E + zetaCr / Math.E ** 3)).toBeLessThan(1e-15);
     expect(cosmicRayRate(zetaCr, 1000, 1000)).toBeLessThan(1e-4 * zetaCr);
     expect(cosmicRayRate(0, 0, 0)).toBe(0);
   });
 });
 
-describe('stellar X-rays (Bai & Goodman 2009, eq. 21, 5 keV row; fit to Igea & Glassgold 1999)', () => {
-  const fit = prepareXrayFit(XRAY_FIT_5KEV);
-  // The published coefficients (Bai & Goodman 2009, text after eq. 21; from memory), typed here from the paper,
-  // not from the code: ζ1 = 6.0e-12 s^-1, N1 = 1.5e21 cm^-2, α = 0.4; ζ2 = 1.0e-15 s^-1, N2 = 7.0e23 cm^-2, β = 0.65.
-  const published = (n: number): number => 6.0e-12 * Math.exp(-((n / 1.5e21) ** 0.4)) + 1.0e-15 * Math.exp(-((n / 7.0e23) ** 0.65));
-  // The fit is per H nucleus; the kernel's rates are per H2 (x 2). At L_X = 1e29 erg/s and 1 AU the scale is 2.
+// The published coefficients, typed here from the sources named in xray-rate.ts, not from the code: per H2,
+// per face, at L_X = 1e29 erg/s and 1 AU. 3 keV: Bai & Goodman 2009, eq. 21. 5 keV: the per-H row of the
+// paper's first author's implementation (2.0e-12, 3.0e21, 0.5; 1.5e-15, 1.0e24, 0.7) x 2 (per H -> per H2).
+const PUBLISHED = {
+  '3 keV': { fit: XRAY_FIT_3KEV, z1: 6.0e-12, n1: 1.5e21, a: 0.4, z2: 1.0e-15, n2: 7.0e23, b: 0.65 },
+  '5 keV': { fit: XRAY_FIT_5KEV, z1: 2 * 2.0e-12, n1: 3.0e21, a: 0.5, z2: 2 * 1.5e-15, n2: 1.0e24, b: 0.7 },
+} as const;
+
+describe.each(Object.entries(PUBLISHED))('stellar X-rays, %s row (Bai & Goodman 2009, eq. 21; fit to Igea & Glassgold 1999)', (_, c) => {
+  const fit = prepareXrayFit(c.fit);
+  const published = (n: number): number => c.z1 * Math.exp(-((n / c.n1) ** c.a)) + c.z2 * Math.exp(-((n / c.n2) ** c.b));
+  // The coefficients are per H2 already: no further factor, the scale is 1 at L_X = 1e29 erg/s and 1 AU.
   const scale = xrayScale(1e29, AU_CGS);
 
-  it('scale is 2 (per H -> per H2) at L_X = 1e29 erg/s, 1 AU', () => {
-    expect(rel(scale, 2)).toBeLessThan(1e-15);
+  it('scale is 1 at L_X = 1e29 erg/s, 1 AU (the rows are per H2 as published)', () => {
+    expect(rel(scale, 1)).toBeLessThan(1e-15);
   });
 
-  it.each([0, 1e20, 1.5e21, 1e22, 1e23, 7.0e23, 3e24])('reproduces the published coefficients at N = %d cm^-2', (n) => {
-    expect(rel(xrayRateFace(scale, n, fit), 2 * published(n))).toBeLessThan(1e-13);
+  it.each([0, 1e20, 1.5e21, 3e21, 1e22, 1e23, 7.0e23, 1e24, 3e24])('reproduces the published coefficients at N = %d cm^-2', (n) => {
+    expect(rel(xrayRateFace(scale, n, fit), published(n))).toBeLessThan(1e-13);
   });
 
   it('the absorbed term falls by e at N1 and the scattered one by e at N2', () => {
-    expect(rel(xrayRateFace(1, 1.5e21, fit) - xrayRateFace(1, 1.5e21, { ...fit, row: { ...fit.row, zeta1: 0 } }), 6.0e-12 / Math.E)).toBeLessThan(1e-13);
-    expect(rel(xrayRateFace(1, 7.0e23, fit) - xrayRateFace(1, 7.0e23, { ...fit, row: { ...fit.row, zeta2: 0 } }), 1.0e-15 / Math.E)).toBeLessThan(1e-13);
+    expect(rel(xrayRateFace(1, c.n1, fit) - xrayRateFace(1, c.n1, { ...fit, row: { ...fit.row, zeta1: 0 } }), c.z1 / Math.E)).toBeLessThan(1e-13);
+    expect(rel(xrayRateFace(1, c.n2, fit) - xrayRateFace(1, c.n2, { ...fit, row: { ...fit.row, zeta2: 0 } }), c.z2 / Math.E)).toBeLessThan(1e-13);
   });
 
   it('is proportional to L_X and to (r/AU)^-2.2 (Bai & Goodman 2009)', () => {
@@ -62,6 +69,15 @@ describe('stellar X-rays (Bai & Goodman 2009, eq. 21, 5 keV row; fit to Igea & G
     expect(rel(hydrogenColumn(1), 1 / (1.4 * M_HYDROGEN_CGS))).toBeLessThan(1e-15);
     const s = xrayScale(1e30, AU_CGS);
     expect(xrayRate(s, 1e22, 2e22, fit)).toBe(xrayRateFace(s, 1e22, fit) + xrayRateFace(s, 2e22, fit));
+  });
+});
+
+describe('the two spectra', () => {
+  it('the harder 5 keV spectrum ionizes less at the face and more deep down (scattered component)', () => {
+    const soft = prepareXrayFit(XRAY_FIT_3KEV);
+    const hard = prepareXrayFit(XRAY_FIT_5KEV);
+    expect(xrayRateFace(1, 0, hard)).toBeLessThan(xrayRateFace(1, 0, soft));
+    expect(xrayRateFace(1, 1e24, hard)).toBeGreaterThan(xrayRateFace(1, 1e24, soft));
   });
 });
 
