@@ -2,6 +2,7 @@
  * Errors with a stable code. The code is what scripts and tests match on; the message names the field, the
  * value received and what was expected. `exitCodeFor` maps every error to the process exit code the CLI uses.
  */
+import { redact } from './redact.js';
 
 /** Stable error codes. `input/*` errors are the user's to fix (exit 2); the rest are failures (exit 1). */
 export type ErrorCode =
@@ -56,12 +57,12 @@ export function exitCodeFor(error: unknown): number {
   return EXIT_FAILURE;
 }
 
-/** The one place that turns an error into the text a person reads. */
+/** The one place that turns an error into the text a person reads (redacted: no password ever reaches it). */
 export function describeError(error: unknown): string {
   if (error instanceof DisksweepError) {
     const lines = [`error [${error.code}]: ${error.message}`, ...error.details.map((d) => `  - ${d}`)];
-    return lines.join('\n');
+    return redact(lines.join('\n'));
   }
-  if (error instanceof Error) return `error: ${error.message}`;
-  return `error: ${String(error)}`;
+  if (error instanceof Error) return redact(`error: ${error.message}`);
+  return redact(`error: ${String(error)}`);
 }

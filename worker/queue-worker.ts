@@ -13,9 +13,10 @@ import { Queue, Worker, type Job } from 'bullmq';
 import { crashPoint } from '../shared/crash-point.js';
 import { chunkTaskSchema, type ChunkOutcomePayload, type ChunkTaskPayload } from '../shared/job-payload.js';
 import { MODEL_VERSION } from '../shared/model-version.js';
-import { bullConnection, redact, redactError, type RedisTarget } from '../orchestrator/transport/redis-connection.js';
-import { heartbeatKey, registryKey, resultsQueueName, versionTag } from '../orchestrator/transport/redis-names.js';
-import { registryEntrySchema, RESULT_JOB_OPTIONS } from '../orchestrator/transport/redis-registry.js';
+import { redact, redactError } from '../shared/redact.js';
+import { bullConnection, type RedisTarget } from '../shared/redis/redis-connection.js';
+import { heartbeatKey, registryKey, resultsQueueName, versionTag } from '../shared/redis/redis-names.js';
+import { registryEntrySchema, RESULT_JOB_OPTIONS } from '../shared/redis/redis-registry.js';
 import { createChunkPool, crashedOutcome, type ChunkPool } from './chunk-pool.js';
 
 export interface QueueWorkerOptions {

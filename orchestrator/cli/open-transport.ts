@@ -8,9 +8,9 @@ import { MODEL_VERSION } from '../../shared/model-version.js';
 import type { QueueWorker } from '../../worker/queue-worker.js';
 import type { SweepStore } from '../store/index.js';
 import type { SweepPlan } from '../sweep/sweep-plan.js';
-import { storedOutcomes } from '../sweep/sweep-runner.js';
+import { ResultCommitter } from '../sweep/result-committer.js';
 import { createEmbeddedTransport } from '../transport/embedded-transport.js';
-import { redact } from '../transport/redis-connection.js';
+import { redact } from '../../shared/redact.js';
 import type { Transport } from '../transport/transport.js';
 import { redisSettings, type RedisFlags } from './redis-flags.js';
 
@@ -36,9 +36,8 @@ export async function openTransport(input: OpenTransportInput): Promise<Transpor
     target, sweepId: input.plan.sweepId, modelVersion: MODEL_VERSION, maxQueued: settings.maxQueued, lockMs: settings.lockMs,
     stalledMs: settings.stalledMs, log, workerCommand: `disksweep work${urlPart}${prefixFlag}${input.flags.redisPasswordFile !== undefined ? ' --redis-password-file FILE' : ''}`,
   });
-  await transport.drain(async (outcome) => {
-    input.store.writeResults(storedOutcomes(input.plan.source, outcome));
-  });
+  const committer = new ResultCommitter(input.plan.source, input.store);
+  await transport.drain((outcome) => committer.commit(outcome));
   let local: QueueWorker | null = null;
   if (input.flags.workers !== undefined) {
     const { startQueueWorker } = await import('../../worker/queue-worker.js');

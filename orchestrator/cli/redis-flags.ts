@@ -5,7 +5,8 @@
 import { Option, type Command } from 'commander';
 import { z } from 'zod';
 import { DisksweepError } from '../../shared/errors.js';
-import { parseRedisTarget, redact, urlHasPassword, type RedisTarget } from '../transport/redis-connection.js';
+import { redact } from '../../shared/redact.js';
+import { parseRedisTarget, urlHasPassword, type RedisTarget } from '../../shared/redis/redis-connection.js';
 
 export interface RedisFlags {
   redis?: string;

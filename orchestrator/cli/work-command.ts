@@ -6,7 +6,7 @@ import { Command, Option } from 'commander';
 import { z } from 'zod';
 import { DisksweepError } from '../../shared/errors.js';
 import { defaultThreadCount } from '../../worker/chunk-pool.js';
-import { redact } from '../transport/redis-connection.js';
+import { redact } from '../../shared/redact.js';
 import { redisOptions, redisSettings, type RedisFlags } from './redis-flags.js';
 
 type WorkFlags = RedisFlags & { concurrency?: string; verbose?: boolean };

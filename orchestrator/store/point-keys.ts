@@ -76,3 +76,17 @@ export class SweepKeys {
     return info;
   }
 }
+
+/** A point's key and its result status (null: no result row yet), or undefined when the sweep lacks the point. */
+export type PointLookup = (sweepKey: number, pointId: string) => [number, string | null] | undefined;
+
+/** The one prepared lookup of a point by (sweep key, point id), shared by the writer and the reuse copier. */
+export function preparePointLookup(db: Database.Database): PointLookup {
+  const statement = db
+    .prepare<[number, string]>(
+      `SELECT p.point_key, r.status FROM points p LEFT JOIN results r ON r.point_key = p.point_key
+       WHERE p.sweep_key = ? AND p.point_id = ?`,
+    )
+    .raw(true);
+  return (sweepKey, pointId) => statement.get(sweepKey, pointId) as [number, string | null] | undefined;
+}

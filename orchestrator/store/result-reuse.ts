@@ -7,7 +7,7 @@
  */
 import type Database from 'better-sqlite3';
 import { DisksweepError } from '../../shared/errors.js';
-import { pointKeyOf, SweepKeys, type SweepKeyInfo } from './point-keys.js';
+import { pointKeyOf, preparePointLookup, SweepKeys, type PointLookup, type SweepKeyInfo } from './point-keys.js';
 import { ident, tableColumns } from './registry-columns.js';
 import { INFRASTRUCTURE_ERROR } from './store-types.js';
 
@@ -36,7 +36,7 @@ function columnsExcept(db: Database.Database, table: 'points' | 'results' | 'che
 
 export class ResultReuse {
   private readonly keys: SweepKeys;
-  private readonly findPoint: Database.Statement<[number, string]>;
+  private readonly findPoint: PointLookup;
   private readonly copyPoint: Database.Statement<[number, number, number, string, number]>;
   private readonly copyResult: Database.Statement<[number, number, string, number]>;
   private readonly replaceResult: Database.Statement<[number, number]>;
@@ -54,12 +54,7 @@ export class ResultReuse {
 
   constructor(db: Database.Database) {
     this.keys = new SweepKeys(db);
-    this.findPoint = db
-      .prepare<[number, string]>(
-        `SELECT p.point_key, r.status FROM points p LEFT JOIN results r ON r.point_key = p.point_key
-         WHERE p.sweep_key = ? AND p.point_id = ?`,
-      )
-      .raw(true);
+    this.findPoint = preparePointLookup(db);
     const pointCols = columnsExcept(db, 'points', ['point_key', 'sweep_key', 'point_id', 'point_index', 'sweep_id']);
     const extra = pointCols.length > 0 ? `, ${pointCols.join(', ')}` : '';
     // (new key, new sweep key, new index, new sweep id, source key)
@@ -98,12 +93,12 @@ export class ResultReuse {
       ) => {
         let copied = 0;
         for (const p of points) {
-          const source = this.findPoint.get(from.sweepKey, p.pointId) as [number, string | null] | undefined;
+          const source = this.findPoint(from.sweepKey, p.pointId);
           const status = source?.[1];
           if (source === undefined || typeof status !== 'string' || status === INFRASTRUCTURE_ERROR) continue;
           if (status !== 'ok' && retryFailed) continue;
           const sourceKey = source[0];
-          const target = this.findPoint.get(to.sweepKey, p.pointId) as [number, string | null] | undefined;
+          const target = this.findPoint(to.sweepKey, p.pointId);
           let key: number;
           if (target === undefined) {
             key = pointKeyOf(to.sweepKey, p.pointIndex);

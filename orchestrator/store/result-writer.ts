@@ -17,7 +17,7 @@ import { DisksweepError } from '../../shared/errors.js';
 import { PARAMS } from '../../shared/model-params.js';
 import type { ModelResult } from '../../shared/model-result.js';
 import { BulkInsert, type SqlValue } from './bulk-insert.js';
-import { pointKeyOf, SweepKeys, type SweepKeyInfo } from './point-keys.js';
+import { pointKeyOf, preparePointLookup, SweepKeys, type PointLookup, type SweepKeyInfo } from './point-keys.js';
 import {
   BASE_COLUMNS,
   CHECKPOINT_COLUMNS,
@@ -46,7 +46,7 @@ const RESULT_VALUE_COLUMNS = [
 
 export class ResultWriter {
   private readonly keys: SweepKeys;
-  private readonly findPoint: Database.Statement<[number, string]>;
+  private readonly findPoint: PointLookup;
   private readonly insertPoint: Database.Statement<SqlValue[]>;
   private readonly insertResult: Database.Statement<SqlValue[]>;
   private readonly replaceResult: Database.Statement<SqlValue[]>;
@@ -62,12 +62,7 @@ export class ResultWriter {
     private readonly now: () => number,
   ) {
     this.keys = new SweepKeys(db);
-    this.findPoint = db
-      .prepare<[number, string]>(
-        `SELECT p.point_key, r.status FROM points p LEFT JOIN results r ON r.point_key = p.point_key
-         WHERE p.sweep_key = ? AND p.point_id = ?`,
-      )
-      .raw(true);
+    this.findPoint = preparePointLookup(db);
     const paramCols = PARAM_COLUMNS.map((c) => ident(c.name));
     this.insertPoint = db.prepare<SqlValue[]>(
       `INSERT INTO points (point_key, sweep_key, point_id, point_index, sweep_id, ${paramCols.join(', ')})
@@ -157,7 +152,7 @@ export class ResultWriter {
 
   /** The key and result status (null: no result row) of a point the sweep holds. */
   private existingPoint(sweepKey: number, item: StoredOutcome): [number, string | null] {
-    const found = this.findPoint.get(sweepKey, item.pointId) as [number, string | null] | undefined;
+    const found = this.findPoint(sweepKey, item.pointId);
     if (found === undefined) {
       // The insert was ignored, yet no point has this id: the key (the index) belongs to another point.
       throw new DisksweepError(

@@ -10,7 +10,12 @@ import type { LoadedSpec } from '../spec/load-spec.js';
 import type { Transport } from '../transport/transport.js';
 import { makePointSource, type PointSource } from './points.js';
 
-export const MAX_CHUNK_SIZE = 10_000;
+/**
+ * Calibrated chunks hold at most this many points: a chunk's outcome is parsed and committed on the
+ * orchestrator's one thread, and one result job carries it through Redis, so both stay small even for models
+ * that take microseconds.
+ */
+export const MAX_CHUNK_SIZE = 1000;
 
 export function sweepIdOf(spec: SweepSpec): string {
   const { name: _name, description: _description, chunks: _chunks, ...content } = spec;

@@ -1,13 +1,22 @@
 /**
  * Drives one sweep through any transport: builds the chunks that still need work (chunk k is always the
  * index range [k·size, (k+1)·size); a resumed chunk holds only its missing points), keeps the transport's
- * window full, and commits each chunk's outcomes to the store in one transaction as they arrive. The store is
- * the truth: what is committed is never run again, whatever happens to the process afterwards.
+ * window full (and at most MAX_IN_FLIGHT_POINTS points in flight), and commits outcomes to the store as they
+ * arrive (group commit, result-committer.ts). The store is the truth: what is committed is never run again,
+ * whatever happens to the process afterwards. The loop yields to the event loop after every chunk it submits,
+ * so a sweep of fast models never keeps signals, lock heartbeats or Redis I/O waiting.
  */
-import type { ChunkOutcomePayload, ChunkTaskPayload } from '../../shared/job-payload.js';
-import type { SweepStore, StoredOutcome } from '../store/sweep-store.js';
+import type { ChunkTaskPayload } from '../../shared/job-payload.js';
+import type { SweepStore } from '../store/sweep-store.js';
 import type { Transport } from '../transport/transport.js';
 import type { PointSource } from './points.js';
+import { ResultCommitter, yieldToEventLoop } from './result-committer.js';
+
+/**
+ * Points submitted and not yet committed, at most (a chunk bigger than this still goes alone). Bounds the
+ * orchestrator's memory (each kept task holds its parameters) and what a Redis holds for one sweep.
+ */
+export const MAX_IN_FLIGHT_POINTS = 50_000;
 
 export interface SweepRunInput {
   readonly sweepId: string;
@@ -50,24 +59,6 @@ export function buildChunk(input: Pick<SweepRunInput, 'sweepId' | 'chunkSize' | 
   return points.length > 0 ? { sweep_id: sweepId, chunk_index: k, points } : null;
 }
 
-/** Turn a chunk outcome into store rows, re-deriving each point from its index (and checking its id). */
-export function storedOutcomes(source: PointSource, outcome: ChunkOutcomePayload): StoredOutcome[] {
-  return outcome.points.map((p) => {
-    const task = source.taskAt(p.point_index);
-    const mismatch = task.pointId !== p.point_id;
-    return {
-      sweepId: outcome.sweep_id,
-      pointId: task.pointId,
-      pointIndex: p.point_index,
-      params: task.params,
-      outcome: mismatch
-        ? { kind: 'infrastructure', reason: `point id mismatch: worker ran ${p.point_id}, expected ${task.pointId} (another model version?)` }
-        : p.outcome,
-      workerHost: outcome.worker_host,
-    };
-  });
-}
-
 export async function runSweep(input: SweepRunInput): Promise<SweepCounts & { interrupted: boolean }> {
   const { source, store, transport, hasResult, signal } = input;
   let already = 0;
@@ -75,9 +66,7 @@ export async function runSweep(input: SweepRunInput): Promise<SweepCounts & { in
   const counts: SweepCounts = { done: already, failed: 0, total: source.size, committed: 0 };
   let wake: (() => void) | null = null;
 
-  transport.onOutcome(async (outcome) => {
-    const rows = storedOutcomes(source, outcome);
-    store.writeResults(rows);
+  const committer = new ResultCommitter(source, store, (rows) => {
     for (const r of rows) {
       if (hasResult[r.pointIndex] === 1) continue; // a repeated delivery
       hasResult[r.pointIndex] = 1;
@@ -88,6 +77,9 @@ export async function runSweep(input: SweepRunInput): Promise<SweepCounts & { in
     input.onProgress?.({ ...counts });
     wake?.();
   });
+  transport.onOutcome((outcome) => committer.commit(outcome));
+  const full = (next: number): boolean =>
+    transport.pending() >= transport.window || (committer.inFlightPoints > 0 && committer.inFlightPoints + next > MAX_IN_FLIGHT_POINTS);
 
   const chunks = chunkCount(source.size, input.chunkSize);
   const stopped = (): boolean => signal?.aborted === true;
@@ -100,7 +92,7 @@ export async function runSweep(input: SweepRunInput): Promise<SweepCounts & { in
     }
     const chunk = buildChunk(input, k);
     if (chunk === null) continue;
-    while (transport.pending() >= transport.window && !stopped()) {
+    while (full(chunk.points.length) && !stopped()) {
       await new Promise<void>((resolve) => (wake = resolve));
       wake = null;
     }
@@ -108,7 +100,9 @@ export async function runSweep(input: SweepRunInput): Promise<SweepCounts & { in
       interrupted = true;
       break;
     }
+    committer.track(chunk);
     await transport.submit(chunk);
+    await yieldToEventLoop();
   }
   await transport.close('graceful');
   return { ...counts, interrupted };

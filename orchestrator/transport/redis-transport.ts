@@ -14,9 +14,10 @@
 import { Queue, Worker, type Job } from 'bullmq';
 import { crashPoint } from '../../shared/crash-point.js';
 import { chunkOutcomeSchema, type ChunkOutcomePayload, type ChunkTaskPayload } from '../../shared/job-payload.js';
-import { bullConnection, redactError, redactedError, type RedisTarget } from './redis-connection.js';
-import { chunkJobId, chunkQueueName, heartbeatPattern, registryKey, resultsQueueName, sentinelKey } from './redis-names.js';
-import { CHUNK_JOB_OPTIONS, heartbeatSchema, type RegistryEntry } from './redis-registry.js';
+import { redactError } from '../../shared/redact.js';
+import { bullConnection, redactedError, type RedisTarget } from '../../shared/redis/redis-connection.js';
+import { chunkJobId, chunkQueueName, heartbeatPattern, registryKey, resultsQueueName, sentinelKey } from '../../shared/redis/redis-names.js';
+import { CHUNK_JOB_OPTIONS, heartbeatSchema, type RegistryEntry } from '../../shared/redis/redis-registry.js';
 import type { CommitOutcome, Transport } from './transport.js';
 
 export interface RedisTransportOptions {
@@ -44,6 +45,8 @@ export interface RedisTransport extends Transport {
 }
 
 const ADD_BATCH = 200;
+/** Result jobs held at once: their outcomes share SQLite transactions (group commit in the runner). */
+const RESULTS_CONCURRENCY = 16;
 const SENTINEL_MS = 1000;
 
 interface PendingChunk {
@@ -166,7 +169,7 @@ export async function createRedisTransport(o: RedisTransportOptions): Promise<Re
   };
   let resultsWorker: Worker | null = null;
   const startResults = (): Worker => {
-    resultsWorker ??= new Worker(resultsQueue, processResult, { connection, prefix, concurrency: 1, lockDuration: Math.max(o.lockMs, 5000), stalledInterval: o.stalledMs });
+    resultsWorker ??= new Worker(resultsQueue, processResult, { connection, prefix, concurrency: RESULTS_CONCURRENCY, lockDuration: Math.max(o.lockMs, 5000), stalledInterval: o.stalledMs });
     resultsWorker.on('error', (e) => logError('redis (results)', e));
     return resultsWorker;
   };

@@ -5,8 +5,7 @@
  */
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { z } from 'zod';
-import { runCli } from '../support/cli.js';
-import { startCliGroup, type GroupProcess } from '../support/cli-group.js';
+import { runCli, startCli, type CliProcess } from '../support/cli.js';
 import { startTestRedis, uniquePrefix, type TestRedis } from '../support/redis-harness.js';
 import { deterministicRows, resultCount, resultsPerPoint } from '../support/sweep-db.js';
 import { gridSpec, writeSpec } from '../support/sweep-specs.js';
@@ -15,7 +14,7 @@ import { waitFor } from '../support/wait.js';
 
 const tmp = useTempDir();
 let redis: TestRedis;
-const procs: GroupProcess[] = [];
+const procs: CliProcess[] = [];
 beforeEach(async () => {
   redis = await startTestRedis();
 });
@@ -27,8 +26,8 @@ afterEach(async () => {
 const summary = z.object({ done: z.number(), failed: z.number(), total: z.number(), committed: z.number(), interrupted: z.boolean() });
 const FAST = ['--lock-ms', '2000', '--stalled-ms', '1000'];
 
-function worker(prefix: string, extra: string[] = []): GroupProcess {
-  const p = startCliGroup(['work', '--redis', redis.url, '--redis-prefix', prefix, '--concurrency', '1', '--verbose', ...FAST, ...extra]);
+function worker(prefix: string, extra: string[] = []): CliProcess {
+  const p = startCli(['work', '--redis', redis.url, '--redis-prefix', prefix, '--concurrency', '1', '--verbose', ...FAST, ...extra], { group: true });
   procs.push(p);
   return p;
 }
@@ -42,7 +41,7 @@ describe('sweeps through Redis', () => {
     const prefix = uniquePrefix('e2e');
     const workers = [worker(prefix), worker(prefix)];
     await Promise.all(workers.map((w) => w.waitForStderr(/ready: model version/)));
-    const run = startCliGroup(['run', spec, '--db', tmp.file('redis.sqlite'), '--redis', redis.url, '--redis-prefix', prefix, ...FAST, '--json']);
+    const run = startCli(['run', spec, '--db', tmp.file('redis.sqlite'), '--redis', redis.url, '--redis-prefix', prefix, ...FAST, '--json'], { group: true });
     procs.push(run);
     const r = await run.exited;
     expect(r.status, r.stderr).toBe(0);
@@ -70,7 +69,7 @@ describe('sweeps through Redis', () => {
     const victim = worker(prefix);
     await victim.waitForStderr(/ready: model version/);
     const db = tmp.file('redis.sqlite');
-    const run = startCliGroup(['run', spec, '--db', db, '--redis', redis.url, '--redis-prefix', prefix, ...FAST, '--json']);
+    const run = startCli(['run', spec, '--db', db, '--redis', redis.url, '--redis-prefix', prefix, ...FAST, '--json'], { group: true });
     procs.push(run);
     // Observed state: a few rows committed and a chunk started (not finished) in the victim's own log.
     await waitFor(() => resultCount(db) >= 3, { timeoutMs: 60_000, what: () => `3 committed rows; worker log:\n${victim.stderr()}` });

@@ -4,7 +4,9 @@
  *
  * - `runCli(args, options?)`: run to completion (blocking), like a shell command.
  * - `runCliAsync(args, options?)`: the same without blocking this process (for readers beside a writer).
- * - `startCli(args, options?)`: start and return at once, to watch stderr and send signals (interrupt tests).
+ * - `startCli(args, options?)`: start and return at once, to watch stderr and send signals (interrupt tests);
+ *   with `group: true` in its own process group, so a fault test can `kill -9` it as a group (the process and
+ *   anything it started) the way a crash or an OOM killer would.
  */
 import { spawn, spawnSync, type ChildProcess } from 'node:child_process';
 import { existsSync } from 'node:fs';
@@ -31,6 +33,8 @@ export interface CliOptions {
   readonly cwd?: string;
   /** Kill the process after this long (default 120 s). */
   readonly timeoutMs?: number;
+  /** startCli only: start it in its own process group (killGroup then signals the whole group). */
+  readonly group?: boolean;
 }
 
 function requireBuilt(path: string): void {
@@ -69,6 +73,8 @@ export interface CliProcess {
   readonly exited: Promise<CliRun>;
   /** Wait (bounded) until stderr matches `pattern`; fails naming what was seen if the process exits first. */
   waitForStderr(pattern: RegExp, timeoutMs?: number): Promise<RegExpMatchArray>;
+  /** Signal the process (its whole group when started with `group: true`); resolves once it has exited. */
+  killGroup(signal?: NodeJS.Signals): Promise<CliRun>;
 }
 
 export function startCli(args: readonly string[], options: CliOptions = {}): CliProcess {
@@ -77,14 +83,24 @@ export function startCli(args: readonly string[], options: CliOptions = {}): Cli
     env: childEnv(options),
     cwd: options.cwd,
     stdio: ['ignore', 'pipe', 'pipe'],
+    detached: options.group === true,
   });
-  if (child.pid === undefined) throw new Error('could not start the disksweep process');
+  const pid = child.pid;
+  if (pid === undefined) throw new Error('could not start the disksweep process');
   let out = '';
   let err = '';
   let done = false;
   child.stdout?.setEncoding('utf8').on('data', (s: string) => (out += s));
   child.stderr?.setEncoding('utf8').on('data', (s: string) => (err += s));
-  const limit = setTimeout(() => child.kill('SIGKILL'), options.timeoutMs ?? 120_000);
+  const kill = (signal: NodeJS.Signals): void => {
+    try {
+      if (options.group === true) process.kill(-pid, signal);
+      else child.kill(signal);
+    } catch {
+      // already gone
+    }
+  };
+  const limit = setTimeout(() => kill('SIGKILL'), options.timeoutMs ?? 120_000);
   const exited = new Promise<CliRun>((resolve) => {
     child.on('close', (status, signal) => {
       clearTimeout(limit);
@@ -94,7 +110,7 @@ export function startCli(args: readonly string[], options: CliOptions = {}): Cli
   });
   return {
     child,
-    pid: child.pid,
+    pid,
     stdout: () => out,
     stderr: () => err,
     get done() {
@@ -113,6 +129,10 @@ export function startCli(args: readonly string[], options: CliOptions = {}): Cli
       if (found.match === null) throw new Error(`stderr never matched ${pattern}`);
       return found.match;
     },
+    async killGroup(signal = 'SIGKILL') {
+      if (!done) kill(signal);
+      return exited;
+    },
   };
 }
 
@@ -123,7 +143,5 @@ export function runCliAsync(args: readonly string[], options: CliOptions = {}): 
 
 /** Stop a background process that is still running (test clean-up); resolves when it has exited. */
 export async function stopCli(p: CliProcess): Promise<void> {
-  if (p.done) return;
-  p.child.kill('SIGKILL');
-  await p.exited;
+  await p.killGroup('SIGKILL');
 }

@@ -10,6 +10,9 @@ import { parseModelParams, type ModelParams } from '../../shared/model-params.js
 import type { ModelResult } from '../../shared/model-result.js';
 import { runValidatedModel } from '../../worker/model.js';
 import type { NewSweep, StoredOutcome } from '../../orchestrator/store/store-types.js';
+import { openStore, type SweepStore } from '../../orchestrator/store/index.js';
+import type { SweepPlan } from '../../orchestrator/sweep/sweep-plan.js';
+import { canonicalJson, contentHash } from '../../shared/hashing.js';
 
 /** Model settings small enough that one run takes milliseconds. */
 export const SMALL_MODEL = { n_cells: 40, t_end_myr: 0.3 } as const;
@@ -89,4 +92,14 @@ export function dirSnapshot(dir: string): Record<string, string> {
         return [name, `${statSync(path).size}:${sha256File(path)}`];
       }),
   );
+}
+
+/** A write store at `file` with the planned sweep registered (its spec stored as canonical JSON). */
+export function storeWithPlan(file: string, plan: SweepPlan, chunkSize: number): SweepStore {
+  const store = openStore(file, { mode: 'write' });
+  store.registerSweep({
+    sweepId: plan.sweepId, name: plan.spec.name, specJson: canonicalJson(plan.spec), specHash: contentHash(plan.spec),
+    modelVersion: MODEL_VERSION, nPoints: plan.source.size, chunkSize,
+  });
+  return store;
 }

@@ -5,19 +5,18 @@
  * point id does not match its index is stored as an infrastructure failure.
  */
 import { describe, expect, it } from 'vitest';
-import { canonicalJson, contentHash } from '../../../shared/hashing.js';
 import type { ChunkOutcomePayload, ChunkTaskPayload } from '../../../shared/job-payload.js';
 import { parseModelParams } from '../../../shared/model-params.js';
 import type { ModelResult } from '../../../shared/model-result.js';
-import { MODEL_VERSION } from '../../../shared/model-version.js';
 import { runValidatedModel } from '../../../worker/model.js';
 import { parseSpecText } from '../../../orchestrator/spec/load-spec.js';
-import { openStore, type SweepStore } from '../../../orchestrator/store/index.js';
+import type { SweepStore } from '../../../orchestrator/store/index.js';
 import { planSweep, type SweepPlan } from '../../../orchestrator/sweep/sweep-plan.js';
 import { buildChunk, chunkCount, runSweep } from '../../../orchestrator/sweep/sweep-runner.js';
 import type { CommitOutcome, Transport } from '../../../orchestrator/transport/transport.js';
 import { resultsPerPoint, statusByIndex } from '../../support/sweep-db.js';
 import { gridSpec } from '../../support/sweep-specs.js';
+import { storeWithPlan } from '../../support/store-fixtures.js';
 import { useTempDir } from '../../support/temp-dir.js';
 
 const tmp = useTempDir();
@@ -27,12 +26,7 @@ const CHUNK = 4;
 const sample: ModelResult = runValidatedModel(parseModelParams({ initial_state: 'disk', n_cells: 40, t_end_myr: 0.2, checkpoints_myr: [0.1, 0.2] }));
 
 function newStore(): SweepStore {
-  const store = openStore(tmp.file('runner.sqlite'), { mode: 'write' });
-  store.registerSweep({
-    sweepId: plan.sweepId, name: plan.spec.name, specJson: canonicalJson(plan.spec), specHash: contentHash(plan.spec),
-    modelVersion: MODEL_VERSION, nPoints: plan.source.size, chunkSize: CHUNK,
-  });
-  return store;
+  return storeWithPlan(tmp.file('runner.sqlite'), plan, CHUNK);
 }
 
 interface Scripted extends Transport {
@@ -147,5 +141,17 @@ describe('runSweep', () => {
     expect(status.get(6)?.status).toBe('infrastructure_error');
     expect(status.get(6)?.reason).toContain('point id mismatch');
     expect(status.get(7)?.status).toBe('ok');
+  });
+});
+
+describe('work on the orchestrator thread', () => {
+  it('derives each point once per run (the chunk tasks are kept until their outcomes are committed)', async () => {
+    const store = newStore();
+    let derived = 0;
+    const counting = { size: plan.source.size, taskAt: (i: number) => (derived++, plan.source.taskAt(i)) };
+    const r = await runSweep({ sweepId: plan.sweepId, chunkSize: CHUNK, source: counting, hasResult: store.pointIndexesWithResult(plan.sweepId), store, transport: scriptedTransport() });
+    expect(r).toMatchObject({ done: 25, committed: 25 });
+    expect(derived).toBe(25);
+    store.close();
   });
 });

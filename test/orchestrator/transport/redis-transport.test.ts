@@ -7,7 +7,7 @@ import { existsSync } from 'node:fs';
 import { fileURLToPath, pathToFileURL } from 'node:url';
 import { afterAll, beforeAll } from 'vitest';
 import type * as RedisTransportModule from '../../../orchestrator/transport/redis-transport.js';
-import type * as ConnectionModule from '../../../orchestrator/transport/redis-connection.js';
+import type * as ConnectionModule from '../../../shared/redis/redis-connection.js';
 import type * as QueueWorkerModule from '../../../worker/queue-worker.js';
 import { MODEL_VERSION } from '../../../shared/model-version.js';
 import { startTestRedis, uniquePrefix, type TestRedis } from '../../support/redis-harness.js';
@@ -31,7 +31,7 @@ afterAll(async () => {
 
 async function makeTransport(threads: number, sweepId: string): Promise<RedisTransportModule.RedisTransport> {
   const { createRedisTransport } = await load<typeof RedisTransportModule>('orchestrator/transport/redis-transport.js');
-  const { parseRedisTarget } = await load<typeof ConnectionModule>('orchestrator/transport/redis-connection.js');
+  const { parseRedisTarget } = await load<typeof ConnectionModule>('shared/redis/redis-connection.js');
   const { startQueueWorker } = await load<typeof QueueWorkerModule>('worker/queue-worker.js');
   const target = parseRedisTarget({ url: redis.url, prefix: uniquePrefix('conf') });
   const lines: string[] = [];

@@ -1,10 +1,12 @@
 /**
- * A Redis URL (`redis://` or `rediss://` for TLS) turned into the connection options BullMQ takes, and the one
- * redactor every log line, error and stack trace that may carry a URL or a password goes through. What is ever
- * stored or printed about a Redis is `describeRedis` (host, port, db, key prefix): never a password.
+ * A Redis URL (`redis://` or `rediss://` for TLS) turned into the connection options BullMQ takes. Passwords
+ * are registered with the one redactor (shared/redact.ts) as they are read. What is ever stored or printed about
+ * a Redis is the target's `description` (host, port, db, key prefix): never a password. Both sides import this:
+ * the orchestrator's transport and `disksweep work`.
  */
 import { readFileSync } from 'node:fs';
-import { DisksweepError } from '../../shared/errors.js';
+import { DisksweepError } from '../errors.js';
+import { redact, redactError, registerSecret } from '../redact.js';
 
 /** Options handed to BullMQ (which makes its own ioredis connections from them). */
 export interface RedisConnectionOptions {
@@ -24,35 +26,6 @@ export interface RedisTarget {
   readonly prefix: string;
   /** host:port/db or the socket path, plus the prefix: what logs, the database and heartbeats may hold. */
   readonly description: string;
-}
-
-const secrets = new Set<string>();
-
-/** Register a secret (a password) so `redact` hides it wherever it appears. */
-export function registerSecret(secret: string | undefined): void {
-  if (secret !== undefined && secret.length > 0) {
-    secrets.add(secret);
-    secrets.add(encodeURIComponent(secret));
-  }
-}
-
-/**
- * Hide passwords in any text: the userinfo of every URL-like `scheme://user:pass@` and every registered
- * secret. Apply it to anything printed that might hold a URL or a Redis error.
- */
-export function redact(text: string): string {
-  let out = text.replace(/([a-z][a-z0-9+.-]*:\/\/)([^/@\s]*)@/gi, (_m, scheme: string, userinfo: string) => {
-    const colon = userinfo.indexOf(':');
-    return colon < 0 ? `${scheme}${userinfo}@` : `${scheme}${userinfo.slice(0, colon)}:***@`;
-  });
-  for (const s of [...secrets].sort((a, b) => b.length - a.length)) out = out.split(s).join('***');
-  return out;
-}
-
-/** An error's message and stack, redacted, as one string. */
-export function redactError(error: unknown): string {
-  if (error instanceof Error) return redact(error.message);
-  return redact(String(error));
 }
 
 /** Wrap any error so nothing that reaches the user carries a password (message, stack and cause redacted). */
