@@ -20,6 +20,12 @@ export type ErrorCode =
   | 'input/older-schema'
   /** A read-only command was pointed at a database file that does not exist. */
   | 'input/missing-database'
+  /** A --where filter (or a name inside one) that the query grammar does not accept. */
+  | 'input/invalid-filter'
+  /** A --target that names no target, or gives it an unknown or out-of-range argument. */
+  | 'input/invalid-target'
+  /** What was asked about is not recorded in this database (an output not in it yet, no ok results). */
+  | 'input/no-data'
   /** Another live process owns the sweep lock of the database. */
   | 'store/locked'
   /** This process's lock was taken over (its heartbeat went stale); it must stop writing. */

@@ -481,11 +481,14 @@ export function issuesToDetails(error: z.ZodError, prefix = ''): string[] {
   });
 }
 
-/** Nearest parameter name by edit distance, for "did you mean" hints. */
-export function suggestionFor(name: string): string {
+/**
+ * Nearest name by edit distance, for "did you mean" hints: ` (did you mean x?)`, or '' when nothing is close.
+ * Candidates default to the parameter names; the query grammar passes its own whitelist.
+ */
+export function suggestionFor(name: string, candidates: readonly string[] = PARAM_NAMES): string {
   let best = '';
   let bestD = Infinity;
-  for (const candidate of PARAM_NAMES) {
+  for (const candidate of candidates) {
     const d = editDistance(name, candidate);
     if (d < bestD) [best, bestD] = [candidate, d];
   }

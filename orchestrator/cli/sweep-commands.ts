@@ -14,6 +14,7 @@ import { CHECKPOINT_OUTPUTS, SCALAR_OUTPUTS } from '../../shared/model-outputs.j
 import { PARAM_NAMES } from '../../shared/model-params.js';
 import { loadSpecFile, parseSpecText } from '../spec/load-spec.js';
 import { openStore, type StoreReader, type SweepRecord, type SweepStore } from '../store/index.js';
+import { pickSweep } from '../store/pick-sweep.js';
 import { createEmbeddedTransport, defaultThreadCount } from '../transport/embedded-transport.js';
 import { executeSweep, type ExecuteResult } from '../sweep/execute-sweep.js';
 import { chunkCount } from '../sweep/sweep-runner.js';
@@ -40,17 +41,6 @@ const sweepOption = () => new Option('--sweep <id-or-name>', 'which sweep, when 
 
 function write(json: boolean, data: unknown, text: string): void {
   process.stdout.write((json ? JSON.stringify(data) : text) + '\n');
-}
-
-/** Pick the sweep a command means: the only one, or the one --sweep names (id prefix or exact name). */
-export function pickSweep(store: StoreReader, selector: string | undefined): SweepRecord {
-  const sweeps = store.listSweeps();
-  if (sweeps.length === 0) throw new DisksweepError('input/invalid-flag', `${store.file} holds no sweep yet`);
-  const matches = selector === undefined ? sweeps : sweeps.filter((s) => s.sweepId.startsWith(selector) || s.name === selector);
-  if (matches.length === 1) return matches[0];
-  const list = sweeps.map((s) => `${s.sweepId.slice(0, 12)}  ${s.name}`);
-  if (matches.length === 0) throw new DisksweepError('input/invalid-flag', `--sweep ${selector}: no such sweep in ${store.file}`, { details: list });
-  throw new DisksweepError('input/invalid-flag', `${store.file} holds ${matches.length} sweeps${selector === undefined ? '' : ` matching "${selector}"`}: choose one with --sweep`, { details: list });
 }
 
 function checkModelVersion(sweep: SweepRecord, file: string): void {

@@ -21,3 +21,4 @@ export { reasonShape, type FailureReason, type StatusCounts } from './result-rea
 export type { ReusablePoint, ReuseSummary } from './result-reuse.js';
 export { DATABASE_SCOPE, LOCK_STALE_MS, isPidAlive, type AcquireOutcome, type LockInfo, type LockOwner, type LockRequest } from './store-lock.js';
 export { APPLICATION_ID, SCHEMA_VERSION } from './schema.js';
+export { pickSweep } from './pick-sweep.js';

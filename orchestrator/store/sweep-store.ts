@@ -96,6 +96,14 @@ export class StoreReader {
     return this.db.open;
   }
 
+  /**
+   * The connection itself, for the query layer (orchestrator/query), which builds its own statements from the
+   * registry whitelist with bound parameters only. A reader's connection is read-only (`query_only`).
+   */
+  get connection(): Database.Database {
+    return this.db;
+  }
+
   close(): void {
     if (this.db.open) this.db.close();
   }
