@@ -11,6 +11,8 @@ import { runValidatedModel } from '../../worker/model.js';
 import { formatModelReport, formatParamList } from './model-report.js';
 import { paramsFromFlags } from './param-flags.js';
 import { probeCommand } from './probe-command.js';
+import { showCommand } from './show-command.js';
+import { exportCommand } from './export-command.js';
 import { sweepCommands } from './sweep-commands.js';
 import { workCommand } from './work-command.js';
 
@@ -70,6 +72,8 @@ function buildProgram(): Command {
     .addCommand(probeCommand())
     .addCommand(workCommand().exitOverride());
   for (const c of sweepCommands()) program.addCommand(c.exitOverride());
+  program.addCommand(showCommand());
+  program.addCommand(exportCommand());
   return program;
 }
 

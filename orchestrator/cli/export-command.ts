@@ -1,0 +1,94 @@
+/**
+ * `disksweep export DB --format csv|jsonl|ecsv`: one row per point with a result — id, status, every
+ * parameter, every scalar output and every checkpoint output at every checkpoint (`m_star_msun@1myr`), names
+ * with their unit suffix; ECSV carries units and descriptions for astropy. Streams: 10^6 rows are fine.
+ */
+import { createWriteStream } from 'node:fs';
+import { once } from 'node:events';
+import type { Writable } from 'node:stream';
+import { Command, Option } from 'commander';
+import { DisksweepError } from '../../shared/errors.js';
+import { exportTable, type ExtraColumn } from '../export/export-table.js';
+import { EXPORT_FORMATS, type ExportFormat } from '../export/table-writers.js';
+import { withReadAccessAsync } from '../store/read-access.js';
+import { pickSweep } from './sweep-commands.js';
+
+export interface ExportFlags {
+  readonly format: string;
+  readonly sweep?: string;
+  readonly out?: string;
+}
+
+const HELP = `
+Examples:
+  disksweep export corvid.sqlite --format csv --out corvid.csv
+  disksweep export corvid.sqlite --format ecsv --out corvid.ecsv     then in Python:
+      from astropy.table import Table; t = Table.read('corvid.ecsv')   # columns with units
+  disksweep export corvid.sqlite --format jsonl | head -n 3
+
+Columns: point_id, point_index, status, status_reason, every model parameter (list parameters as JSON
+text), every scalar output, then every checkpoint output at each checkpoint time, named like
+m_star_msun@1myr. Units are in the names (and, in ECSV, in the header). Points without a result yet are
+left out; failed models are rows with their status and empty outputs.`;
+
+export function parseFormat(text: string): ExportFormat {
+  if (!(EXPORT_FORMATS as readonly string[]).includes(text)) {
+    throw new DisksweepError('input/invalid-flag', `--format: expected one of ${EXPORT_FORMATS.join(', ')} (got "${text}")`);
+  }
+  return text as ExportFormat;
+}
+
+/** Open --out for writing (exit 2 naming the path when it cannot be), or stdout. */
+async function openOut(path: string | undefined): Promise<{ out: Writable; finish(): Promise<void> }> {
+  if (path === undefined) return { out: process.stdout, finish: async () => undefined };
+  const out = createWriteStream(path);
+  try {
+    await once(out, 'open');
+  } catch (error) {
+    const code = (error as NodeJS.ErrnoException).code ?? 'error';
+    throw new DisksweepError('input/unreadable-file', `--out ${path}: cannot write the file (${code})`, { cause: error });
+  }
+  return {
+    out,
+    finish: async () => {
+      out.end();
+      await once(out, 'finish');
+    },
+  };
+}
+
+/** Export one sweep of `dbFile` to --out (or stdout); `extra` adds computed columns (e.g. a target's pass). */
+export async function runExport(dbFile: string, flags: ExportFlags, extra: (sweepId: string) => ExtraColumn[] = () => []): Promise<number> {
+  const format = parseFormat(flags.format);
+  const rows = await withReadAccessAsync(dbFile, async ({ reader, db }) => {
+    const sweep = pickSweep(reader, flags.sweep);
+    const columns = extra(sweep.sweepId); // may refuse a bad --target before anything is written
+    const { out, finish } = await openOut(flags.out);
+    const report = (n: number) => process.stderr.write(`exported ${n} rows\n`);
+    const n = await exportTable(db, sweep, out, { format, extra: columns, onProgress: flags.out === undefined ? undefined : report });
+    await finish();
+    return n;
+  });
+  if (flags.out !== undefined) process.stderr.write(`wrote ${rows} rows to ${flags.out}\n`);
+  return rows;
+}
+
+/** `disksweep export ... | head` closes the pipe early: that is the reader's choice, not a failure. */
+export function ignoreClosedPipe(error: unknown): void {
+  if ((error as NodeJS.ErrnoException).code === 'EPIPE') return;
+  throw error;
+}
+
+export function exportCommand(): Command {
+  return new Command('export')
+    .description('write one row per point (parameters and outputs, with units) as CSV, JSON lines or ECSV')
+    .argument('<db>', 'the SQLite database of results')
+    .addOption(new Option('--format <format>', 'csv, jsonl or ecsv (astropy, with units)').choices([...EXPORT_FORMATS]).makeOptionMandatory())
+    .option('--sweep <id-or-name>', 'which sweep, when the database holds several (id prefix or name)')
+    .option('--out <file>', 'write here instead of stdout')
+    .addHelpText('after', HELP)
+    .action(async (db: string, flags: ExportFlags) => {
+      await runExport(db, flags).catch(ignoreClosedPipe);
+    })
+    .exitOverride();
+}

@@ -1,0 +1,93 @@
+/**
+ * `disksweep show DB POINT_ID` as a process: a unique prefix finds the point, an ambiguous or unknown one is
+ * an input error naming the candidates; the terminal output has the parameters, the checkpoint table and the
+ * plots; --json is the stored run with its series as arrays; --svg and --png write the plots.
+ */
+import { readFileSync } from 'node:fs';
+import { beforeAll, describe, expect, it } from 'vitest';
+import { runCli } from '../../support/cli.js';
+import { SMALL_DISK_SPEC, writeResultsDb, type ResultsDb } from '../../support/results-db.js';
+import { makeTempDir } from '../../support/temp-dir.js';
+import { allElements, parseXml, textOf } from '../../support/xml-tree.js';
+
+let dir: string;
+let db: string;
+let made: ResultsDb;
+
+beforeAll(() => {
+  dir = makeTempDir();
+  db = `${dir}/wren.sqlite`;
+  made = writeResultsDb(db, SMALL_DISK_SPEC('wren-hollow', 3, 3));
+});
+
+/** The shortest prefix of `id` no other id shares. */
+function prefixes(ids: readonly string[], id: string) {
+  let n = 1;
+  while (ids.filter((o) => o.startsWith(id.slice(0, n))).length > 1) n++;
+  return id.slice(0, n);
+}
+
+describe('disksweep show', () => {
+  it('finds a point by a unique prefix and prints parameters, checkpoints and plots', () => {
+    const id = made.pointIds[4];
+    const r = runCli(['show', db, prefixes(made.pointIds, id)]);
+    expect(r.stderr).toBe('');
+    expect(r.status).toBe(0);
+    expect(r.stdout).toContain(`point ${id} (index 4) of sweep wren-hollow`);
+    const p = made.outcomes[4].params;
+    expect(r.stdout).toContain(`m_disk_msun=${JSON.stringify(p.m_disk_msun)}`);
+    expect(r.stdout).toContain(`alpha_active=${JSON.stringify(p.alpha_active)}`);
+    expect(r.stdout).toMatch(/t \[Myr\] +M_\* \[Msun\]/);
+    for (const title of ['accretion rate onto the star', 'solar-like split', 'where the angular momentum is', 'dead zone']) expect(r.stdout).toContain(title);
+  });
+
+  it('refuses an ambiguous prefix, listing the candidates, and an unknown or malformed one (exit 2)', () => {
+    // Point ids are hashes of the parameters, so these are fixed: of the 9 ids, two share a first digit (the
+    // test data were checked for it), and at least 7 of the 16 hex digits start none.
+    const first = made.pointIds.map((id) => id[0]);
+    const shared = first.find((c, k) => first.indexOf(c) !== k);
+    expect(shared).toBeDefined();
+    const ambiguous = runCli(['show', db, shared!]);
+    expect(ambiguous.status).toBe(2);
+    expect(ambiguous.stderr).toContain('give more digits');
+    for (const id of made.pointIds.filter((i) => i.startsWith(shared!))) expect(ambiguous.stderr).toContain(id);
+    const absent = '0123456789abcdef'.split('').find((c) => !first.includes(c))!;
+    const unknown = runCli(['show', db, absent]);
+    expect(unknown.status).toBe(2);
+    expect(unknown.stderr).toContain(`no point id starting with "${absent}"`);
+    const bad = runCli(['show', db, 'xyz!']);
+    expect(bad.status).toBe(2);
+    expect(bad.stderr).toContain('hex digits');
+    const noDb = runCli(['show', `${dir}/absent.sqlite`, 'ab']);
+    expect(noDb.status).toBe(2);
+  });
+
+  it('--json prints the stored run with the series as arrays', () => {
+    const id = made.pointIds[0];
+    const r = runCli(['show', db, id, '--json']);
+    expect(r.status).toBe(0);
+    const out = JSON.parse(r.stdout) as { point_id: string; status: string; params: Record<string, unknown>; series: Record<string, number[]>; checkpoints: unknown[] };
+    expect(out.point_id).toBe(id);
+    expect(out.status).toBe('ok');
+    expect(out.params).toEqual(made.outcomes[0].params);
+    const result = made.outcomes[0].outcome.kind === 'model' ? made.outcomes[0].outcome.result : undefined;
+    expect(out.checkpoints).toEqual(result?.checkpoints);
+    expect(out.series.t_myr).toHaveLength(result?.series.n_samples ?? -1);
+    expect(Object.keys(out.series).sort()).toEqual(['m_disk_msun', 'm_star_msun', 'mdot_star_msun_yr', 'spin_j_share', 'star_mass_share', 't_myr']);
+  });
+
+  it('--svg writes five panels as one well-formed SVG; --png a PNG', () => {
+    const id = made.pointIds[8];
+    const r = runCli(['show', db, id, '--svg', `${dir}/p.svg`, '--png', `${dir}/p.png`]);
+    expect(r.status).toBe(0);
+    const root = parseXml(readFileSync(`${dir}/p.svg`, 'utf8'));
+    expect(allElements(root).filter((e) => e.attrs.class === 'panel')).toHaveLength(5);
+    const titles = allElements(root).filter((e) => e.attrs.class === 'plot-title').map(textOf);
+    expect(titles).toContain('accretion rate onto the star');
+    expect(allElements(root).filter((e) => e.name === 'polyline').length).toBeGreaterThanOrEqual(6);
+    expect(readFileSync(`${dir}/p.png`).subarray(1, 4).toString('latin1')).toBe('PNG');
+    const noDir = runCli(['show', db, id, '--svg', `${dir}/no/such/dir/p.svg`]);
+    expect(noDir.status).toBe(2);
+    expect(noDir.stderr).toContain('--svg');
+  });
+});
