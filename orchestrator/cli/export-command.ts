@@ -10,8 +10,8 @@ import { Command, Option } from 'commander';
 import { DisksweepError } from '../../shared/errors.js';
 import { exportTable, type ExtraColumn } from '../export/export-table.js';
 import { EXPORT_FORMATS, type ExportFormat } from '../export/table-writers.js';
-import { withReadAccessAsync } from '../store/read-access.js';
-import { pickSweep } from './sweep-commands.js';
+import { pickSweep } from '../store/pick-sweep.js';
+import { withReaderAsync } from '../store/read-access.js';
 
 export interface ExportFlags {
   readonly format: string;
@@ -60,12 +60,12 @@ async function openOut(path: string | undefined): Promise<{ out: Writable; finis
 /** Export one sweep of `dbFile` to --out (or stdout); `extra` adds computed columns (e.g. a target's pass). */
 export async function runExport(dbFile: string, flags: ExportFlags, extra: (sweepId: string) => ExtraColumn[] = () => []): Promise<number> {
   const format = parseFormat(flags.format);
-  const rows = await withReadAccessAsync(dbFile, async ({ reader, db }) => {
+  const rows = await withReaderAsync(dbFile, async (reader) => {
     const sweep = pickSweep(reader, flags.sweep);
     const columns = extra(sweep.sweepId); // may refuse a bad --target before anything is written
     const { out, finish } = await openOut(flags.out);
     const report = (n: number) => process.stderr.write(`exported ${n} rows\n`);
-    const n = await exportTable(db, sweep, out, { format, extra: columns, onProgress: flags.out === undefined ? undefined : report });
+    const n = await exportTable(reader.connection, sweep, out, { format, extra: columns, onProgress: flags.out === undefined ? undefined : report });
     await finish();
     return n;
   });

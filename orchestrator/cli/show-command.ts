@@ -11,12 +11,12 @@ import { svgToPng } from '../plots/png.js';
 import { svgDocument } from '../plots/svg.js';
 import { pointFigure, pointPanels, terminalPanels } from '../show/point-figures.js';
 import { findPoint } from '../show/point-lookup.js';
-import { withReadAccess } from '../store/read-access.js';
+import { pickSweep } from '../store/pick-sweep.js';
+import { withReader } from '../store/read-access.js';
 import type { StoredRecord } from '../store/index.js';
-import { variedParams } from '../sweep/varied-params.js';
+import { sweepSpace } from '../query/sweep-space.js';
 import { formatModelReport } from './model-report.js';
 import { writeOutputFile } from './output-file.js';
-import { pickSweep } from './sweep-commands.js';
 
 interface ShowFlags {
   readonly sweep?: string;
@@ -44,10 +44,10 @@ function jsonOf(record: StoredRecord, sweepName: string, alsoIn: readonly string
 }
 
 function showAction(dbFile: string, pointText: string, flags: ShowFlags): void {
-  withReadAccess(dbFile, ({ reader, db }) => {
+  withReader(dbFile, (reader) => {
     const sweeps = flags.sweep === undefined ? reader.listSweeps() : [pickSweep(reader, flags.sweep)];
     if (sweeps.length === 0) throw new DisksweepError('input/invalid-flag', `${dbFile} holds no sweep yet`);
-    const found = findPoint(reader, db, pointText, sweeps);
+    const found = findPoint(reader, pointText, sweeps);
     const record = reader.readResult(found.sweep.sweepId, found.pointId);
     if (record === undefined) {
       throw new DisksweepError('input/invalid-flag', `point ${found.pointId} of sweep ${found.sweep.name} has no result yet`, {
@@ -73,7 +73,7 @@ function showAction(dbFile: string, pointText: string, flags: ShowFlags): void {
       if (flags.png !== undefined) writeOutputFile('--png', flags.png, svgToPng(svg));
     }
     if (flags.json === true) return;
-    const varied = variedParams(found.sweep).map((v) => `${v.name}=${JSON.stringify(record.params[v.name])}`);
+    const varied = sweepSpace(found.sweep).parameters.map((v) => `${v.name}=${JSON.stringify(record.params[v.name])}`);
     process.stdout.write([
       header,
       `varied in this sweep: ${varied.join(' ')}`,

@@ -7,19 +7,11 @@ import { drawAxes, makeScale, type Frame } from './axes.js';
 import { NO_DATA_FILL, viridis } from './colours.js';
 import { marchingSquares } from './contour.js';
 import { el, escapeXml, polyline, svgDocument, text, type Figure } from './svg.js';
-import { formatNumber, type AxisKind } from './ticks.js';
+import type { MapGrid } from './terminal-map.js';
+import { formatNumber } from './ticks.js';
 
-export interface HeatMap {
+export interface HeatMap extends MapGrid {
   readonly title: string;
-  readonly xLabel: string;
-  readonly yLabel: string;
-  readonly xAxis: AxisKind;
-  readonly yAxis: AxisKind;
-  /** Bin edges, ascending: nx + 1 and ny + 1 of them. */
-  readonly xEdges: readonly number[];
-  readonly yEdges: readonly number[];
-  /** Fraction per cell, row by row (cell (i, j) at j * nx + i); NaN where a cell has no points. */
-  readonly values: ArrayLike<number>;
   /** Points per cell and passing points per cell, for the tooltips. */
   readonly counts: ArrayLike<number>;
   readonly passes: ArrayLike<number>;

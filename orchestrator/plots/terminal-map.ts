@@ -5,7 +5,8 @@
  */
 import { formatNumber, type AxisKind } from './ticks.js';
 
-export interface TerminalMap {
+/** A fraction on a grid of two parameters: what the terminal map and the SVG heat map both draw. */
+export interface MapGrid {
   readonly xLabel: string;
   readonly yLabel: string;
   readonly xAxis: AxisKind;
@@ -33,7 +34,7 @@ export function shadeOf(f: number): string {
   return c;
 }
 
-export function renderTerminalMap(m: TerminalMap): string {
+export function renderTerminalMap(m: MapGrid): string {
   const nx = m.xEdges.length - 1;
   const ny = m.yEdges.length - 1;
   const yTop = formatNumber(m.yEdges[ny]);

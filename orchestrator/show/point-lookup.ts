@@ -3,7 +3,6 @@
  * prefix is enough; an ambiguous one is an error that lists the candidates. Point ids are hex, so the prefix
  * is a range scan of the (sweep_key, point_id) index per sweep, never a full scan.
  */
-import type Database from 'better-sqlite3';
 import { DisksweepError } from '../../shared/errors.js';
 import type { StoreReader, SweepRecord } from '../store/index.js';
 
@@ -17,12 +16,12 @@ export interface FoundPoint {
 const HEX_PREFIX = /^[0-9a-f]{1,64}$/;
 const MAX_CANDIDATES = 10;
 
-export function findPoint(reader: StoreReader, db: Database.Database, prefixText: string, sweeps: readonly SweepRecord[]): FoundPoint {
+export function findPoint(reader: StoreReader, prefixText: string, sweeps: readonly SweepRecord[]): FoundPoint {
   const prefix = prefixText.trim().toLowerCase();
   if (!HEX_PREFIX.test(prefix)) {
     throw new DisksweepError('input/invalid-flag', `POINT_ID: expected a point id or a prefix of one (hex digits 0-9, a-f; got "${prefixText}")`);
   }
-  const stmt = db.prepare(
+  const stmt = reader.connection.prepare(
     `SELECT p.point_id FROM points p JOIN sweeps s ON s.sweep_key = p.sweep_key
      WHERE s.sweep_id = ? AND p.point_id >= ? AND p.point_id < ? ORDER BY p.point_id LIMIT ?`,
   ).pluck();

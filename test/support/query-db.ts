@@ -28,19 +28,50 @@ export function splitGridSpec(name = 'heron-reach-split'): SpecObject {
   };
 }
 
-/** Run every point of `spec` and store it in a new database `dir/file`; returns the path and the sweep id. */
-export function buildQueryDb(dir: string, spec: SpecObject, file = 'query.sqlite'): { path: string; sweepId: string } {
+/**
+ * Disks over 3 Myr with a fixed active column, so some have dead zones (Wren Hollow, an invented cluster):
+ * ~30 ms per model; a mix of runs that reach the solar-like split and runs that do not.
+ */
+export function deadZoneGridSpec(name = 'wren-hollow', mCount = 4, aCount = 4): SpecObject {
+  return {
+    name,
+    description: 'Disks of the invented Wren Hollow cluster (OSPREY survey), a small test grid',
+    model: { n_cells: 40, t_end_myr: 3, checkpoints_myr: [0.1, 0.3, 1, 2, 3], n_series: 40 },
+    fixed: { initial_state: 'disk', active_layer: 'fixed_column', alpha_dead: 1e-5 },
+    vary: { m_disk_msun: { log: [0.003, 0.1], count: mCount }, alpha_active: { log: [1e-3, 1e-1], count: aCount } },
+    sampling: { plan: 'grid' },
+    chunks: { size: 8 },
+  };
+}
+
+export interface QueryDbOptions {
+  /** Store the sweep under this name instead of the spec's (e.g. markup a spec file would refuse). */
+  readonly storedName?: string;
+  /** Run and store only the first `limit` points. */
+  readonly limit?: number;
+}
+
+export interface QueryDb {
+  readonly path: string;
+  readonly sweepId: string;
+  /** What was written, in point order. */
+  readonly outcomes: readonly StoredOutcome[];
+  readonly pointIds: readonly string[];
+}
+
+/** Run the points of `spec` and store them in the database `dir/file` (created if absent). */
+export function buildQueryDb(dir: string, spec: SpecObject, file = 'query.sqlite', options: QueryDbOptions = {}): QueryDb {
   const plan = planSweep(parseSpecText(JSON.stringify(spec), 'test spec', 'json'));
   const path = join(dir, file);
+  const outcomes: StoredOutcome[] = [];
   const store = openStore(path, { mode: 'write' });
   try {
     const specJson = storedSpecJson(plan.spec);
     store.registerSweep({
-      sweepId: plan.sweepId, name: plan.spec.name, specJson, specHash: contentHash(specJson), modelVersion: MODEL_VERSION,
+      sweepId: plan.sweepId, name: options.storedName ?? plan.spec.name, specJson, specHash: contentHash(specJson), modelVersion: MODEL_VERSION,
       nPoints: plan.source.size, chunkSize: 3,
     });
-    const outcomes: StoredOutcome[] = [];
-    for (let i = 0; i < plan.source.size; i++) {
+    for (let i = 0; i < Math.min(plan.source.size, options.limit ?? plan.source.size); i++) {
       const task = plan.source.taskAt(i);
       outcomes.push({
         sweepId: plan.sweepId, pointId: task.pointId, pointIndex: i, params: task.params,
@@ -51,5 +82,5 @@ export function buildQueryDb(dir: string, spec: SpecObject, file = 'query.sqlite
   } finally {
     store.close();
   }
-  return { path, sweepId: plan.sweepId };
+  return { path, sweepId: plan.sweepId, outcomes, pointIds: outcomes.map((o) => o.pointId) };
 }

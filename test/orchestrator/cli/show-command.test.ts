@@ -6,18 +6,18 @@
 import { readFileSync } from 'node:fs';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { runCli } from '../../support/cli.js';
-import { SMALL_DISK_SPEC, writeResultsDb, type ResultsDb } from '../../support/results-db.js';
+import { buildQueryDb, deadZoneGridSpec, type QueryDb } from '../../support/query-db.js';
 import { makeTempDir } from '../../support/temp-dir.js';
 import { allElements, parseXml, textOf } from '../../support/xml-tree.js';
 
 let dir: string;
 let db: string;
-let made: ResultsDb;
+let made: QueryDb;
 
 beforeAll(() => {
   dir = makeTempDir();
   db = `${dir}/wren.sqlite`;
-  made = writeResultsDb(db, SMALL_DISK_SPEC('wren-hollow', 3, 3));
+  made = buildQueryDb(dir, deadZoneGridSpec('wren-hollow', 3, 3), 'wren.sqlite');
 });
 
 /** The shortest prefix of `id` no other id shares. */

@@ -12,18 +12,18 @@ import { checkpointColumnName } from '../../../orchestrator/export/export-column
 import { openStore, type StoredOutcome } from '../../../orchestrator/store/index.js';
 import { runCli } from '../../support/cli.js';
 import { parseCsv, readEcsv } from '../../support/ecsv-reader.js';
-import { SMALL_DISK_SPEC, writeResultsDb, type ResultsDb } from '../../support/results-db.js';
+import { buildQueryDb, deadZoneGridSpec, type QueryDb } from '../../support/query-db.js';
 import { makeTempDir } from '../../support/temp-dir.js';
 
 let dir: string;
 let db: string;
-let made: ResultsDb;
+let made: QueryDb;
 const REASON = 'worker "kite-3" lost, retried; then, gave up';
 
 beforeAll(() => {
   dir = makeTempDir();
   db = `${dir}/wren.sqlite`;
-  made = writeResultsDb(db, SMALL_DISK_SPEC('wren-hollow', 3, 3), { limit: 8 });
+  made = buildQueryDb(dir, deadZoneGridSpec('wren-hollow', 3, 3), 'wren.sqlite', { limit: 8 });
   // The ninth point failed outside the model, with a reason full of CSV's special characters.
   const last = made.outcomes[7];
   const store = openStore(db, { mode: 'write' });
@@ -41,7 +41,7 @@ function expected(o: StoredOutcome): Record<string, unknown> {
     const r = o.outcome.result;
     e.status = r.status;
     for (const d of SCALAR_OUTPUTS) e[d.name] = r.scalars[d.name];
-    for (const c of r.checkpoints) for (const d of CHECKPOINT_OUTPUTS) e[checkpointColumnName(d.name, c.t_myr)] = c[d.name];
+    for (const c of r.checkpoints) for (const d of CHECKPOINT_OUTPUTS) e[checkpointColumnName(d.name, Number(c.t_myr))] = c[d.name];
   } else {
     e.status = 'infrastructure_error';
     e.status_reason = o.outcome.reason;
