@@ -13,6 +13,7 @@ import { paramsFromFlags } from './param-flags.js';
 import { probeCommand } from './probe-command.js';
 import { showCommand } from './show-command.js';
 import { exportCommand } from './export-command.js';
+import { queryCommand } from './query-command.js';
 import { sweepCommands } from './sweep-commands.js';
 import { workCommand } from './work-command.js';
 
@@ -70,6 +71,7 @@ function buildProgram(): Command {
     .exitOverride()
     .addCommand(modelCommand().exitOverride())
     .addCommand(probeCommand())
+    .addCommand(queryCommand())
     .addCommand(workCommand().exitOverride());
   for (const c of sweepCommands()) program.addCommand(c.exitOverride());
   program.addCommand(showCommand());

@@ -5,19 +5,7 @@
 import { PARAMS, PARAM_NAMES, DEFAULT_PARAMS, allowedText, type ModelParams } from '../../shared/model-params.js';
 import { decodeSeries, type ModelResult } from '../../shared/model-result.js';
 import { renderPlot } from './terminal-plot.js';
-
-const num = (v: number | boolean | null, digits = 3): string => {
-  if (v === null) return '-';
-  if (typeof v === 'boolean') return v ? 'yes' : 'no';
-  if (v === 0) return '0';
-  return Math.abs(v) >= 1e4 || Math.abs(v) < 1e-2 ? v.toExponential(digits - 1) : v.toPrecision(digits);
-};
-
-function table(header: readonly string[], rows: readonly (readonly string[])[]): string {
-  const widths = header.map((h, c) => Math.max(h.length, ...rows.map((r) => r[c].length)));
-  const line = (cells: readonly string[]) => cells.map((cell, c) => cell.padStart(widths[c])).join('  ');
-  return [line(header), line(widths.map((w) => '-'.repeat(w))), ...rows.map(line)].join('\n');
-}
+import { num, table } from './text-table.js';
 
 /** Parameters that differ from their defaults, as `name=value` (what makes this run this run). */
 export function changedParams(p: ModelParams): string[] {

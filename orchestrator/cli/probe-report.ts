@@ -5,18 +5,7 @@
  */
 import type { ProbeResult } from '../../worker/probe.js';
 import { renderPlot } from './terminal-plot.js';
-
-const num = (v: number, digits = 3): string => {
-  if (v === 0) return '0';
-  if (!Number.isFinite(v)) return String(v);
-  return Math.abs(v) >= 1e4 || Math.abs(v) < 1e-2 ? v.toExponential(digits - 1) : v.toPrecision(digits);
-};
-
-function table(header: readonly string[], rows: readonly (readonly string[])[]): string {
-  const widths = header.map((h, c) => Math.max(h.length, ...rows.map((r) => r[c].length)));
-  const line = (cells: readonly string[]) => cells.map((cell, c) => cell.padStart(widths[c])).join('  ');
-  return [line(header), line(widths.map((w) => '-'.repeat(w))), ...rows.map(line)].join('\n');
-}
+import { num, table } from './text-table.js';
 
 export function formatProbeReport(r: ProbeResult): string {
   const q = r.inputs;
