@@ -12,6 +12,8 @@
  *                    (replay), and the refresh-tolerance accuracy check (ionization-bench.ts)
  *   sqlite_ingest, sweep_parallel_efficiency, noop_overhead, orchestrator_rss
  *                    the store and the sweep machinery (system-bench.ts)
+ *   multi_host       a Redis sweep with its two workers in two network namespaces against both on loopback:
+ *                    points/s and their ratio (multihost-bench.ts; skipped unless Linux, root, ip, redis-server)
  * The JS and C step loops run in alternating rounds, so a load spike on a shared machine hits both alike.
  */
 import { arch, availableParallelism, cpus, loadavg, platform } from 'node:os';
@@ -26,6 +28,7 @@ import {
 import { makeStepTimer, type StepCaseName, type StepSamples } from './implicit-step-case.js';
 import { benchIonizationShare, benchRefreshAccuracy } from './ionization-bench.js';
 import { benchModel, type ModelBenchResult } from './model-bench.js';
+import { benchMultiHost } from './multihost-bench.js';
 import { median, progress, quantile, sig } from './stats.js';
 import { benchSystem } from './system-bench.js';
 
@@ -186,6 +189,7 @@ async function main(): Promise<void> {
   };
 
   const system = await benchSystem();
+  const multiHost = await benchMultiHost();
 
   const ratios = c.ratio_js_over_c === null ? [] : Object.values(c.ratio_js_over_c);
   const worst = ratios.length === 0 ? null : Math.max(...ratios);
@@ -200,6 +204,7 @@ async function main(): Promise<void> {
     },
     c_reference: c,
     ...system.sections,
+    multi_host: multiHost,
     machine: {
       node: process.version,
       v8: process.versions.v8,

@@ -35,6 +35,11 @@ export interface CliOptions {
   readonly timeoutMs?: number;
   /** startCli only: start it in its own process group (killGroup then signals the whole group). */
   readonly group?: boolean;
+  /**
+   * startCli only: run the CLI under this command, which must exec it in place (e.g. `['ip', 'netns', 'exec',
+   * NAME]`), so the process started is still the CLI itself.
+   */
+  readonly wrapper?: readonly string[];
 }
 
 function requireBuilt(path: string): void {
@@ -79,7 +84,8 @@ export interface CliProcess {
 
 export function startCli(args: readonly string[], options: CliOptions = {}): CliProcess {
   requireBuilt(CLI_PATH);
-  const child = spawn(process.execPath, [CLI_PATH, ...args], {
+  const [command, ...prefix] = [...(options.wrapper ?? []), process.execPath];
+  const child = spawn(command, [...prefix, CLI_PATH, ...args], {
     env: childEnv(options),
     cwd: options.cwd,
     stdio: ['ignore', 'pipe', 'pipe'],

@@ -18,6 +18,8 @@ export interface RedisServerOptions {
   readonly password?: string;
   /** Serve TLS only, with these PEM files (the port then speaks TLS; the URL is rediss://). */
   readonly tls?: { readonly cert: string; readonly key: string; readonly ca: string };
+  /** Listen on these IPv4 addresses instead of 127.0.0.1 (the URL names the first). */
+  readonly bind?: readonly string[];
 }
 
 export interface TestRedis {
@@ -42,11 +44,12 @@ export const hasRedisServer = (): boolean => spawnSync('redis-server', ['--versi
 /** A key prefix no other test uses. */
 export const uniquePrefix = (label = 't'): string => `${label}-${randomBytes(4).toString('hex')}`;
 
-async function freePort(): Promise<number> {
+/** A TCP port nobody listens on at `host` now. */
+export async function freePort(host: string): Promise<number> {
   return new Promise((resolve, reject) => {
     const server = createServer();
     server.once('error', reject);
-    server.listen(0, '127.0.0.1', () => {
+    server.listen(0, host, () => {
       const address = server.address();
       const port = typeof address === 'object' && address !== null ? address.port : 0;
       server.close(() => resolve(port));
@@ -71,8 +74,9 @@ export async function startTestRedis(options: RedisServerOptions = {}): Promise<
     };
   }
   const dir = mkdtempSync(join(tmpdir(), 'disksweep-redis-'));
-  const port = await freePort();
-  const args = ['--bind', '127.0.0.1', '--save', '', '--appendonly', 'no', '--dir', dir, '--protected-mode', 'no'];
+  const bind = options.bind ?? ['127.0.0.1'];
+  const port = await freePort(bind[0]);
+  const args = ['--bind', ...bind, '--save', '', '--appendonly', 'no', '--dir', dir, '--protected-mode', 'no'];
   if (options.tls === undefined) args.push('--port', String(port));
   else args.push('--port', '0', '--tls-port', String(port), '--tls-cert-file', options.tls.cert, '--tls-key-file', options.tls.key, '--tls-ca-cert-file', options.tls.ca, '--tls-auth-clients', 'no');
   if (options.password !== undefined) args.push('--requirepass', options.password);
@@ -107,10 +111,10 @@ export async function startTestRedis(options: RedisServerOptions = {}): Promise<
   };
 
   await launch();
-  const cliBase = ['-p', String(port), ...(options.tls === undefined ? [] : ['--tls', '--cacert', options.tls.ca]), ...(options.password === undefined ? [] : ['--no-auth-warning', '-a', options.password])];
+  const cliBase = ['-h', bind[0], '-p', String(port), ...(options.tls === undefined ? [] : ['--tls', '--cacert', options.tls.ca]), ...(options.password === undefined ? [] : ['--no-auth-warning', '-a', options.password])];
   return {
-    url: `${options.tls === undefined ? 'redis' : 'rediss'}://127.0.0.1:${port}`,
-    host: '127.0.0.1',
+    url: `${options.tls === undefined ? 'redis' : 'rediss'}://${bind[0]}:${port}`,
+    host: bind[0],
     port,
     owned: true,
     kill,
