@@ -112,6 +112,8 @@ describe('deploy/Dockerfile', () => {
     expect(buildRuns).toMatch(/npm run build/);
     expect(buildRuns).toMatch(/npm prune --omit=dev/);
     expect(args(runtime, 'RUN').join('\n')).not.toMatch(/npm (ci|install)/);
+    // PNG plots need the font orchestrator/plots/png.ts loads.
+    expect(args(runtime, 'RUN').join('\n')).toMatch(/apt-get install .*fonts-dejavu-core/);
     // The runtime copies built output and pruned modules from the build stage, no sources of its own.
     for (const copy of args(runtime, 'COPY')) expect(copy).toMatch(/^--from=build\s/);
     expect(args(runtime, 'COPY').join('\n')).not.toMatch(/\.ts\b/);
