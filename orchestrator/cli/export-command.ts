@@ -8,14 +8,16 @@ import { once } from 'node:events';
 import type { Writable } from 'node:stream';
 import { Command, Option } from 'commander';
 import { DisksweepError } from '../../shared/errors.js';
-import { exportTable, type ExtraColumn } from '../export/export-table.js';
+import { exportTable, type ExportOptions } from '../export/export-table.js';
+import { evaluateTargets } from '../query/index.js';
+import type { StoreReader, SweepRecord } from '../store/index.js';
 import { EXPORT_FORMATS, type ExportFormat } from '../export/table-writers.js';
 import { pickSweep } from '../store/pick-sweep.js';
 import { withReaderAsync } from '../store/read-access.js';
+import { parseTargetFlags, withTargetOptions, type TargetFlags } from './target-flags.js';
 
-export interface ExportFlags {
+export interface ExportFlags extends TargetFlags {
   readonly format: string;
-  readonly sweep?: string;
   readonly out?: string;
 }
 
@@ -25,11 +27,35 @@ Examples:
   disksweep export corvid.sqlite --format ecsv --out corvid.ecsv     then in Python:
       from astropy.table import Table; t = Table.read('corvid.ecsv')   # columns with units
   disksweep export corvid.sqlite --format jsonl | head -n 3
+  disksweep export corvid.sqlite --format csv --target solar-split --where 'alpha_active >= 1e-3'
 
 Columns: point_id, point_index, status, status_reason, every model parameter (list parameters as JSON
 text), every scalar output, then every checkpoint output at each checkpoint time, named like
 m_star_msun@1myr. Units are in the names (and, in ECSV, in the header). Points without a result yet are
-left out; failed models are rows with their status and empty outputs.`;
+left out; failed models are rows with their status and empty outputs. With --target, a last column pass
+says whether the point passes every target (empty for points without an ok result); with --where, only the
+points the filter selects are written. Targets and filters are those of \`disksweep query\`.`;
+
+/** Selected state per point index: 0 not selected (no ok result, or --where refused it), 1 fails, 2 passes. */
+function targetState(reader: StoreReader, sweep: SweepRecord, flags: ExportFlags): Uint8Array | null {
+  const targets = parseTargetFlags(flags, false);
+  if (targets.length === 0 && flags.where === undefined) return null;
+  const ev = evaluateTargets(reader, { sweep: sweep.sweepId, targets, where: flags.where });
+  const state = new Uint8Array(sweep.nPoints);
+  ev.pointIndex.forEach((i, k) => (state[i] = 1 + ev.pass[k]));
+  return state;
+}
+
+function targetColumns(flags: ExportFlags, state: Uint8Array | null): Pick<ExportOptions, 'extra' | 'include'> {
+  if (state === null) return {};
+  const include = flags.where === undefined ? undefined : (i: number) => state[i] !== 0;
+  if (flags.target.length === 0) return { include };
+  const description = `passes every target: ${flags.target.join(' and ')}${flags.where === undefined ? '' : ` (points selected by ${flags.where})`}; empty without an ok result`;
+  return {
+    include,
+    extra: [{ column: { name: 'pass', type: 'bool', unit: null, description, source: 'value' }, valueAt: (i) => (state[i] === 0 ? null : state[i] === 2) }],
+  };
+}
 
 export function parseFormat(text: string): ExportFormat {
   if (!(EXPORT_FORMATS as readonly string[]).includes(text)) {
@@ -57,15 +83,16 @@ async function openOut(path: string | undefined): Promise<{ out: Writable; finis
   };
 }
 
-/** Export one sweep of `dbFile` to --out (or stdout); `extra` adds computed columns (e.g. a target's pass). */
-export async function runExport(dbFile: string, flags: ExportFlags, extra: (sweepId: string) => ExtraColumn[] = () => []): Promise<number> {
+/** Export one sweep of `dbFile` to --out (or stdout), with a pass column for --target and rows of --where. */
+export async function runExport(dbFile: string, flags: ExportFlags): Promise<number> {
   const format = parseFormat(flags.format);
   const rows = await withReaderAsync(dbFile, async (reader) => {
-    const sweep = pickSweep(reader, flags.sweep);
-    const columns = extra(sweep.sweepId); // may refuse a bad --target before anything is written
+    const sweep = pickSweep(reader, flags.sweep, 'latest');
+    if (flags.sweep === undefined && reader.listSweeps().length > 1) process.stderr.write(`${dbFile} holds several sweeps: exporting the latest, ${sweep.name}; choose another with --sweep\n`);
+    const state = targetState(reader, sweep, flags); // a bad --target or --where exits 2 before anything is written
     const { out, finish } = await openOut(flags.out);
     const report = (n: number) => process.stderr.write(`exported ${n} rows\n`);
-    const n = await exportTable(reader.connection, sweep, out, { format, extra: columns, onProgress: flags.out === undefined ? undefined : report });
+    const n = await exportTable(reader.connection, sweep, out, { format, ...targetColumns(flags, state), onProgress: flags.out === undefined ? undefined : report });
     await finish();
     return n;
   });
@@ -80,11 +107,13 @@ export function ignoreClosedPipe(error: unknown): void {
 }
 
 export function exportCommand(): Command {
-  return new Command('export')
-    .description('write one row per point (parameters and outputs, with units) as CSV, JSON lines or ECSV')
-    .argument('<db>', 'the SQLite database of results')
-    .addOption(new Option('--format <format>', 'csv, jsonl or ecsv (astropy, with units)').choices([...EXPORT_FORMATS]).makeOptionMandatory())
-    .option('--sweep <id-or-name>', 'which sweep, when the database holds several (id prefix or name)')
+  return withTargetOptions(
+    new Command('export')
+      .description('write one row per point (parameters and outputs, with units) as CSV, JSON lines or ECSV')
+      .argument('<db>', 'the SQLite database of results')
+      .addOption(new Option('--format <format>', 'csv, jsonl or ecsv (astropy, with units)').choices([...EXPORT_FORMATS]).makeOptionMandatory()),
+    { targetRequired: false },
+  )
     .option('--out <file>', 'write here instead of stdout')
     .addHelpText('after', HELP)
     .action(async (db: string, flags: ExportFlags) => {

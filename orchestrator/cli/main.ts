@@ -14,6 +14,7 @@ import { probeCommand } from './probe-command.js';
 import { showCommand } from './show-command.js';
 import { exportCommand } from './export-command.js';
 import { queryCommand } from './query-command.js';
+import { mapCommand } from './map-command.js';
 import { sweepCommands } from './sweep-commands.js';
 import { workCommand } from './work-command.js';
 
@@ -76,6 +77,7 @@ function buildProgram(): Command {
   for (const c of sweepCommands()) program.addCommand(c.exitOverride());
   program.addCommand(showCommand());
   program.addCommand(exportCommand());
+  program.addCommand(mapCommand());
   return program;
 }
 

@@ -21,6 +21,8 @@ export interface ExtraColumn {
 export interface ExportOptions {
   readonly format: ExportFormat;
   readonly extra?: readonly ExtraColumn[];
+  /** Only the rows of points this accepts (by point index); default all. */
+  readonly include?: (pointIndex: number) => boolean;
   /** Called every `progressEvery` rows (default 100 000) with the rows written so far. */
   readonly onProgress?: (rows: number) => void;
   readonly progressEvery?: number;
@@ -53,8 +55,9 @@ export async function exportTable(db: Database.Database, sweep: SweepRecord, out
   let rows = 0;
   const cells: Cell[] = new Array<Cell>(columns.length);
   for (const raw of exportStatement(db, layout).iterate(...times, from, to) as Iterable<unknown[]>) {
-    for (let k = 0; k < base.length; k++) cells[k] = toCell(base[k], raw[k]);
     const pointIndex = raw[indexAt] as number;
+    if (options.include !== undefined && !options.include(pointIndex)) continue;
+    for (let k = 0; k < base.length; k++) cells[k] = toCell(base[k], raw[k]);
     for (let k = 0; k < extra.length; k++) cells[base.length + k] = extra[k].valueAt(pointIndex);
     chunk += writer.row(cells);
     rows++;

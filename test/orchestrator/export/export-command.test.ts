@@ -142,6 +142,35 @@ describe('CSV and JSON lines', () => {
   });
 });
 
+describe('export with targets', () => {
+  it('--target adds a pass column: the recorded split by 3 Myr for ok points, empty for the failed one', () => {
+    const r = runCli(['export', db, '--format', 'jsonl', '--target', 'solar-split']);
+    expect(r.status).toBe(0);
+    const lines = r.stdout.trim().split('\n').map((l) => JSON.parse(l) as Record<string, unknown>);
+    expect(lines).toHaveLength(9);
+    for (const l of lines.slice(0, 8)) {
+      const t = l.t_solar_split_myr;
+      expect(l.pass, String(l.point_id)).toBe(typeof t === 'number' && t <= 3);
+    }
+    expect(lines[8].pass).toBeNull();
+    expect(new Set(lines.slice(0, 8).map((l) => l.pass)).size).toBe(2); // both outcomes occur
+  });
+
+  it('--where keeps only the selected points; the ECSV header describes the pass column', () => {
+    const r = runCli(['export', db, '--format', 'ecsv', '--target', 'solar-split', '--where', 'alpha_active >= 0.01']);
+    expect(r.status).toBe(0);
+    const t = readEcsv(r.stdout);
+    const alpha = t.names.indexOf('alpha_active');
+    expect(t.rows.length).toBeGreaterThan(0);
+    expect(t.rows.length).toBeLessThan(8);
+    for (const row of t.rows) expect(Number(row[alpha])).toBeGreaterThanOrEqual(0.01);
+    const pass = t.header.datatype.at(-1)!;
+    expect(pass).toMatchObject({ name: 'pass', datatype: 'bool' });
+    expect(pass.description).toContain('solar-split');
+    expect(runCli(['export', db, '--format', 'csv', '--target', 'nope']).status).toBe(2);
+  });
+});
+
 describe('units', () => {
   it('every unit of the parameter table and the output registry has an astropy spelling', () => {
     const units = new Set<string>([...OUTPUTS.map((d) => d.unit), ...PARAM_NAMES.flatMap((n) => (PARAMS[n].kind === 'choice' ? [] : [(PARAMS[n] as { unit: string }).unit]))]);
