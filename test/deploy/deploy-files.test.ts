@@ -5,14 +5,14 @@
  * lines and run); the systemd unit has the keys a worker service needs; Redis accepts deploy/redis.conf.
  */
 import { spawn, spawnSync } from 'node:child_process';
-import { cpSync, mkdirSync, readFileSync, symlinkSync, writeFileSync } from 'node:fs';
-import { dirname, join, posix } from 'node:path';
+import { readFileSync, symlinkSync, writeFileSync } from 'node:fs';
+import { join, posix } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { parse } from 'yaml';
 import { z } from 'zod';
 import { chunkSpecSchema } from '../../shared/sweep-spec.js';
 import {
-  DEPLOY_DIR, REPO_DIR, cliFlags, cliSubcommands, composeDefaults, dockerStages, durationSeconds, readDeploy, unitSections,
+  DEPLOY_DIR, REPO_DIR, cliFlags, cliSubcommands, composeDefaults, dockerStages, durationSeconds, readDeploy, replayCopy, unitSections,
 } from '../support/deploy-files.js';
 import { freePort, hasRedisServer } from '../support/redis-harness.js';
 import { resultsPerPoint } from '../support/sweep-db.js';
@@ -122,32 +122,29 @@ describe('deploy/Dockerfile', () => {
     expect(['root', '0']).not.toContain(user?.split(':')[0]);
   });
 
-  it('has the built CLI (the package bin) as its entrypoint, and that layout runs a sweep', () => {
+  it('builds from exactly what it copies, and the runtime layout runs a sweep with the package bin as entrypoint', () => {
     const entry = z.array(z.string()).parse(JSON.parse(args(runtime, 'ENTRYPOINT').at(-1) ?? 'null'));
     const appDir = args(runtime, 'WORKDIR')[0];
     expect(entry).toEqual(['node', posix.join(appDir, BIN)]);
 
-    // Assemble the runtime stage's files from its COPY lines (node_modules linked, not copied) and run it.
-    const buildDir = args(build, 'WORKDIR')[0];
-    const app = join(tmp.path, 'app');
-    for (const copy of args(runtime, 'COPY')) {
-      const parts = copy.split(/\s+/).slice(1);
-      const dest = parts.pop() ?? '';
-      for (const src of parts) {
-        const from = join(REPO_DIR, posix.relative(buildDir, src));
-        const to = parts.length > 1 ? join(app, dest, posix.basename(src)) : join(app, dest);
-        mkdirSync(dirname(to), { recursive: true });
-        if (posix.basename(src) === 'node_modules') symlinkSync(from, to);
-        else cpSync(from, to, { recursive: true });
-      }
-    }
-    const cli = join(app, posix.relative(appDir, entry[1]));
+    // The build stage: its COPY lines into an empty tree (this checkout's node_modules stand in for `npm ci`),
+    // then its build command. A file the build needs and the Dockerfile does not copy fails here.
+    const src = { root: join(tmp.path, 'src'), workdir: args(build, 'WORKDIR')[0] };
+    for (const copy of args(build, 'COPY')) replayCopy(copy, { root: REPO_DIR, workdir: '/' }, src);
+    symlinkSync(join(REPO_DIR, 'node_modules'), join(src.root, 'node_modules'));
+    const built = spawnSync('npm', ['run', 'build'], { cwd: src.root, encoding: 'utf8', timeout: 240_000 });
+    expect(built.status, `npm run build in the build stage's files:\n${built.stdout}\n${built.stderr}`).toBe(0);
+
+    // The runtime stage: its COPY lines from the build stage's tree, then the entrypoint runs a sweep (the store
+    // reads its SQL migrations at run time, so a missing COPY of them fails here too).
+    const app = { root: join(tmp.path, 'app'), workdir: appDir };
+    for (const copy of args(runtime, 'COPY')) replayCopy(copy, src, app);
     const spec = writeSpec(tmp.path, 'heron.yaml', gridSpec('heron-image-layout', 2, 2, 2));
     const db = join(tmp.path, 'image.sqlite');
-    const r = spawnSync(process.execPath, [cli, 'run', spec, '--db', db, '--workers', '1'], { encoding: 'utf8', timeout: 120_000 });
+    const r = spawnSync(process.execPath, [join(app.root, posix.relative(appDir, entry[1])), 'run', spec, '--db', db, '--workers', '1'], { encoding: 'utf8', timeout: 120_000 });
     expect(r.status, r.stderr).toBe(0);
     expect(resultsPerPoint(db)).toEqual({ points: 4, results: 4, maxPerPoint: 1 });
-  });
+  }, 300_000);
 
   it('sends the build stage every file it copies (Dockerfile.dockerignore)', () => {
     const allowed = readDeploy('Dockerfile.dockerignore').split('\n').filter((l) => l.startsWith('!')).map((l) => l.slice(1).replace(/\/\*\*$/, ''));

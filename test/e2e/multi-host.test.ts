@@ -86,7 +86,9 @@ describe.skipIf(unavailable !== null)(`workers on two hosts (network namespaces)
     const killed = await victim.killGroup('SIGKILL');
     expect(killed.signal).toBe('SIGKILL');
 
-    // Host B loses its network for twice the lock duration: its locks expire while it cannot renew them.
+    // Host B loses its network for twice the lock duration while it holds a chunk: that lock expires while B
+    // cannot renew it.
+    await waitFor(() => /: started \(/.test(lastLine(cut)), { timeoutMs: 30_000, what: () => `host B to hold a chunk; its log:\n${cut.stderr()}` });
     b.setLink(false);
     const atCut = resultCount(db);
     expect(atCut, 'the sweep should still have work when the link goes down').toBeLessThan(POINTS);
@@ -97,8 +99,10 @@ describe.skipIf(unavailable !== null)(`workers on two hosts (network namespaces)
     const r = await run.exited;
     expect(r.status, `${r.stderr}\nhost B:\n${cut.stderr()}`).toBe(0);
     expect(summary.parse(JSON.parse(r.stdout))).toEqual({ done: POINTS, failed: 0, total: POINTS, interrupted: false });
-    // Host B came back and finished the work (host A is dead): a late lock complaint, if any, was only logged.
-    expect(cut.stderr().slice(cutLogLength)).toMatch(/results sent/);
+    // Host B came back and finished the work (host A is dead); finding its lock gone was logged, not fatal.
+    const afterCut = cut.stderr().slice(cutLogLength);
+    expect(afterCut).toMatch(/results sent/);
+    expect(afterCut).toMatch(/lock/i);
     expect(cut.done, `host B's worker exited:\n${cut.stderr()}`).toBe(false);
     expect(resultsPerPoint(db)).toEqual({ points: POINTS, results: POINTS, maxPerPoint: 1 });
     expect(deterministicRows(db)).toEqual(deterministicRows(tmp.file('embedded.sqlite')));

@@ -3,7 +3,8 @@
  * stages and instructions, a systemd unit's sections and keys, durations in either's syntax, compose variable
  * defaults, and the flags a built `disksweep` subcommand accepts (from its --help).
  */
-import { readFileSync } from 'node:fs';
+import { cpSync, mkdirSync, readFileSync, symlinkSync } from 'node:fs';
+import { dirname, join, posix } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { runCli } from './cli.js';
 
@@ -92,4 +93,29 @@ export function cliFlags(subcommand: string): Set<string> {
   if (help.status !== 0) throw new Error(`disksweep ${subcommand} --help failed: ${help.stderr}`);
   const options = help.stdout.split(/\nOptions:\n/)[1]?.split(/\n\n/)[0] ?? '';
   return new Set([...options.matchAll(/^ {2}(?:-[a-zA-Z], )?(--[a-z][a-z-]*)/gm)].map((m) => m[1]));
+}
+
+/** Where a stage of a Dockerfile lives on this machine: its root directory, and its WORKDIR inside the image. */
+export interface StageDir {
+  readonly root: string;
+  readonly workdir: string;
+}
+
+/**
+ * Replay a COPY line (`[--from=STAGE] SRC... DEST`) from one directory tree into another, as Docker would:
+ * several sources or a DEST ending in / go into DEST, a single source becomes DEST. `node_modules` is linked,
+ * not copied (the test's own modules stand in for the image's).
+ */
+export function replayCopy(line: string, from: StageDir, to: StageDir): void {
+  const parts = line.split(/\s+/).filter((p) => !p.startsWith('--'));
+  const dest = parts.pop() ?? '';
+  const into = parts.length > 1 || dest.endsWith('/');
+  for (const src of parts) {
+    const source = join(from.root, posix.isAbsolute(src) ? posix.relative(from.workdir, src) : src);
+    const destPath = posix.isAbsolute(dest) ? posix.relative(to.workdir, dest) : dest;
+    const target = join(to.root, destPath, into ? posix.basename(src) : '');
+    mkdirSync(dirname(target), { recursive: true });
+    if (posix.basename(src) === 'node_modules') symlinkSync(source, target);
+    else cpSync(source, target, { recursive: true });
+  }
 }
