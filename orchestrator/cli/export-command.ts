@@ -8,8 +8,9 @@ import { once } from 'node:events';
 import type { Writable } from 'node:stream';
 import { Command, Option } from 'commander';
 import { DisksweepError } from '../../shared/errors.js';
-import { exportTable, type ExportOptions } from '../export/export-table.js';
-import { evaluateTargets } from '../query/index.js';
+import { exportTable } from '../export/export-table.js';
+import { targetColumnOptions } from '../export/target-column.js';
+import { evaluateTargets, type Evaluation } from '../query/index.js';
 import type { StoreReader, SweepRecord } from '../store/index.js';
 import { EXPORT_FORMATS, type ExportFormat } from '../export/table-writers.js';
 import { pickSweep } from '../store/pick-sweep.js';
@@ -35,27 +36,6 @@ m_star_msun@1myr. Units are in the names (and, in ECSV, in the header). Points w
 left out; failed models are rows with their status and empty outputs. With --target, a last column pass
 says whether the point passes every target (empty for points without an ok result); with --where, only the
 points the filter selects are written. Targets and filters are those of \`disksweep query\`.`;
-
-/** Selected state per point index: 0 not selected (no ok result, or --where refused it), 1 fails, 2 passes. */
-function targetState(reader: StoreReader, sweep: SweepRecord, flags: ExportFlags): Uint8Array | null {
-  const targets = parseTargetFlags(flags, false);
-  if (targets.length === 0 && flags.where === undefined) return null;
-  const ev = evaluateTargets(reader, { sweep: sweep.sweepId, targets, where: flags.where });
-  const state = new Uint8Array(sweep.nPoints);
-  ev.pointIndex.forEach((i, k) => (state[i] = 1 + ev.pass[k]));
-  return state;
-}
-
-function targetColumns(flags: ExportFlags, state: Uint8Array | null): Pick<ExportOptions, 'extra' | 'include'> {
-  if (state === null) return {};
-  const include = flags.where === undefined ? undefined : (i: number) => state[i] !== 0;
-  if (flags.target.length === 0) return { include };
-  const description = `passes every target: ${flags.target.join(' and ')}${flags.where === undefined ? '' : ` (points selected by ${flags.where})`}; empty without an ok result`;
-  return {
-    include,
-    extra: [{ column: { name: 'pass', type: 'bool', unit: null, description, source: 'value' }, valueAt: (i) => (state[i] === 0 ? null : state[i] === 2) }],
-  };
-}
 
 export function parseFormat(text: string): ExportFormat {
   if (!(EXPORT_FORMATS as readonly string[]).includes(text)) {
@@ -83,21 +63,29 @@ async function openOut(path: string | undefined): Promise<{ out: Writable; finis
   };
 }
 
-/** Export one sweep of `dbFile` to --out (or stdout), with a pass column for --target and rows of --where. */
-export async function runExport(dbFile: string, flags: ExportFlags): Promise<number> {
+/**
+ * Write one sweep as `format` to `path` (or stdout), with the pass column and row selection of an evaluation
+ * (null: every row, no pass column). Returns the rows written.
+ */
+export async function exportSweep(reader: StoreReader, sweep: SweepRecord, format: ExportFormat, ev: Evaluation | null, path: string | undefined): Promise<number> {
+  const { out, finish } = await openOut(path);
+  const report = (n: number) => process.stderr.write(`exported ${n} rows\n`);
+  const n = await exportTable(reader.connection, sweep, out, { format, ...(ev === null ? {} : targetColumnOptions(ev)), onProgress: path === undefined ? undefined : report });
+  await finish();
+  if (path !== undefined) process.stderr.write(`wrote ${n} rows to ${path}\n`);
+  return n;
+}
+
+async function runExport(dbFile: string, flags: ExportFlags): Promise<number> {
   const format = parseFormat(flags.format);
-  const rows = await withReaderAsync(dbFile, async (reader) => {
+  return withReaderAsync(dbFile, async (reader) => {
     const sweep = pickSweep(reader, flags.sweep, 'latest');
     if (flags.sweep === undefined && reader.listSweeps().length > 1) process.stderr.write(`${dbFile} holds several sweeps: exporting the latest, ${sweep.name}; choose another with --sweep\n`);
-    const state = targetState(reader, sweep, flags); // a bad --target or --where exits 2 before anything is written
-    const { out, finish } = await openOut(flags.out);
-    const report = (n: number) => process.stderr.write(`exported ${n} rows\n`);
-    const n = await exportTable(reader.connection, sweep, out, { format, ...targetColumns(flags, state), onProgress: flags.out === undefined ? undefined : report });
-    await finish();
-    return n;
+    // A bad --target or --where exits 2 here, before anything is written.
+    const targets = parseTargetFlags(flags, false);
+    const ev = targets.length === 0 && flags.where === undefined ? null : evaluateTargets(reader, { sweep: sweep.sweepId, targets, where: flags.where });
+    return exportSweep(reader, sweep, format, ev, flags.out);
   });
-  if (flags.out !== undefined) process.stderr.write(`wrote ${rows} rows to ${flags.out}\n`);
-  return rows;
 }
 
 /** `disksweep export ... | head` closes the pipe early: that is the reader's choice, not a failure. */

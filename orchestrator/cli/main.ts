@@ -15,6 +15,7 @@ import { showCommand } from './show-command.js';
 import { exportCommand } from './export-command.js';
 import { queryCommand } from './query-command.js';
 import { mapCommand } from './map-command.js';
+import { reportCommand } from './report-command.js';
 import { sweepCommands } from './sweep-commands.js';
 import { workCommand } from './work-command.js';
 
@@ -78,6 +79,7 @@ function buildProgram(): Command {
   program.addCommand(showCommand());
   program.addCommand(exportCommand());
   program.addCommand(mapCommand());
+  program.addCommand(reportCommand());
   return program;
 }
 

@@ -6,8 +6,8 @@
 import { Command } from 'commander';
 import { z } from 'zod';
 import { DisksweepError } from '../../shared/errors.js';
-import { DEFAULT_BINS, MAX_BINS, passGrid, type MapAxis, type PassGrid } from '../map/pass-grid.js';
-import { heatMapSvg } from '../plots/heat-map.js';
+import { DEFAULT_BINS, MAX_BINS, gridHeatMap, passGrid, type MapAxis, type PassGrid } from '../map/pass-grid.js';
+import { svgDocument } from '../plots/svg.js';
 import { svgToPng } from '../plots/png.js';
 import { renderTerminalMap } from '../plots/terminal-map.js';
 import { evaluateTargets, type Evaluation } from '../query/index.js';
@@ -57,12 +57,6 @@ export function mapTitle(ev: Evaluation): string {
   return `${ev.sweep.name}: ${targetText(ev)}${ev.where === null ? '' : ` where ${ev.where}`}`;
 }
 
-export function mapSvg(ev: Evaluation, grid: PassGrid): string {
-  return heatMapSvg({
-    title: mapTitle(ev), xLabel: grid.x.label, yLabel: grid.y.label, xAxis: grid.x.axis, yAxis: grid.y.axis,
-    xEdges: grid.x.edges, yEdges: grid.y.edges, values: grid.fractions, counts: grid.counts, passes: grid.passes, valueLabel: 'pass fraction',
-  });
-}
 
 const axisJson = (a: MapAxis) => ({ name: a.parameter.name, unit: a.parameter.unit, scale: a.axis, edges: a.edges, label: a.label });
 
@@ -85,7 +79,7 @@ function mapAction(dbFile: string, flags: MapFlags): void {
     }
     const grid = passGrid(ev, flags.x, flags.y, { bins, gridPlan: isGridSweep(ev) });
     if (flags.svg !== undefined || flags.png !== undefined) {
-      const svg = mapSvg(ev, grid);
+      const svg = svgDocument(gridHeatMap(grid, mapTitle(ev)));
       if (flags.svg !== undefined) writeOutputFile('--svg', flags.svg, svg);
       if (flags.png !== undefined) writeOutputFile('--png', flags.png, svgToPng(svg));
     }

@@ -10,6 +10,8 @@
  */
 import { DisksweepError } from '../../shared/errors.js';
 import type { Evaluation, VariedParameter } from '../query/index.js';
+import { heatMap } from '../plots/heat-map.js';
+import type { Figure } from '../plots/svg.js';
 import type { AxisKind } from '../plots/ticks.js';
 
 export interface MapAxis {
@@ -35,7 +37,7 @@ export const DEFAULT_BINS = 12;
 export const MAX_BINS = 200;
 
 /** Edges halfway between sorted distinct values (in the axis' space), the outer ones half a step beyond. */
-function edgesAround(values: readonly number[], toSpace: (v: number) => number, fromSpace: (u: number) => number): number[] {
+export function edgesAround(values: readonly number[], toSpace: (v: number) => number, fromSpace: (u: number) => number): number[] {
   const u = [...new Set(values.map(toSpace))].sort((a, b) => a - b);
   if (u.length === 1) return [fromSpace(u[0] - 0.5), fromSpace(u[0] + 0.5)];
   const mids = u.slice(1).map((v, k) => (u[k] + v) / 2);
@@ -115,4 +117,12 @@ export function passGrid(ev: Evaluation, xName: string, yName: string, options: 
   }
   const fractions = Float64Array.from(counts, (n, c) => (n === 0 ? NaN : passes[c] / n));
   return { x, y, counts, passes, fractions };
+}
+
+/** The SVG heat map of a grid (pass fraction, counts in the tooltips, 50 % contour). */
+export function gridHeatMap(grid: PassGrid, title: string): Figure {
+  return heatMap({
+    title, xLabel: grid.x.label, yLabel: grid.y.label, xAxis: grid.x.axis, yAxis: grid.y.axis,
+    xEdges: grid.x.edges, yEdges: grid.y.edges, values: grid.fractions, counts: grid.counts, passes: grid.passes, valueLabel: 'pass fraction',
+  });
 }
