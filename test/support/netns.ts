@@ -4,14 +4,14 @@
  * reaches a server of the root namespace only over that link, like a machine on a LAN. Linux, root and `ip`
  * (iproute2) only; `netnsUnavailable()` says why not elsewhere.
  *
- * Names carry the owner's pid: `dsw-<pid base 36>-<2 hex><host index>` for a namespace, plus `r` / `h` for the
- * root-side / host-side veth end (at most 15 characters, the kernel's limit). `removeStaleNetns()` deletes
+ * Names carry the owner's pid: `dsw-<pid base 36>-<lab number, 2 hex><host index>` for a namespace, plus `r`
+ * / `h` for the root-side / host-side veth end (at most 15 characters, the kernel's limit). `removeStaleNetns()` deletes
  * what a dead owner left (a killed test run) and never what a live one uses: vitest runs test files in
  * parallel, and the bench may run beside the suite. Subnets are picked at random in 10.211.0.0/16 and checked
  * against every address and route of the root namespace, so two runs at once never share one.
  */
 import { spawnSync } from 'node:child_process';
-import { randomBytes, randomInt } from 'node:crypto';
+import { randomInt } from 'node:crypto';
 import { platform } from 'node:os';
 
 const NAME_RE = /^dsw-([0-9a-z]{1,7})-[0-9a-f]{2}\d+[rh]?$/;
@@ -125,9 +125,13 @@ function freeSubnet(taken: readonly { base: number; bits: number }[]): number {
   throw new Error('no free /30 in 10.211.0.0/16 for a test link');
 }
 
+/** Labs made by this process so far (mod 256): with the pid, a name no other lab alive now has. */
+let labsMade = randomInt(0, 256);
+
 /** Make `count` namespaces, each with its own veth link to the root namespace. Call destroy() when done. */
 export function createNetnsHosts(count: number): NetnsLab {
-  const tag = `dsw-${process.pid.toString(36)}-${randomBytes(1).toString('hex')}`;
+  labsMade = (labsMade + 1) % 256;
+  const tag = `dsw-${process.pid.toString(36)}-${labsMade.toString(16).padStart(2, '0')}`;
   const made: string[] = [];
   const destroy = (): void => {
     for (const ns of made) {
