@@ -18,8 +18,11 @@ export function defaultThreadCount(): number {
 
 export interface ChunkPool {
   readonly threads: number;
-  /** Run one chunk in a thread; rejects when the thread fails (crash, exit, out of memory). */
-  run(chunk: ChunkTaskPayload): Promise<ChunkOutcomePayload>;
+  /**
+   * Run one chunk in a thread; rejects when the thread fails (crash, exit, out of memory) or `signal` aborts
+   * (the thread is then terminated and replaced).
+   */
+  run(chunk: ChunkTaskPayload, signal?: AbortSignal): Promise<ChunkOutcomePayload>;
   destroy(): Promise<void>;
 }
 
@@ -27,8 +30,8 @@ export function createChunkPool(threads: number = defaultThreadCount()): ChunkPo
   const pool = new Piscina({ filename: WORKER_FILE, minThreads: threads, maxThreads: threads, idleTimeout: 60_000 });
   return {
     threads,
-    async run(chunk) {
-      const buffer = (await pool.run(chunk)) as ArrayBuffer | Uint8Array;
+    async run(chunk, signal) {
+      const buffer = (await pool.run(chunk, { signal: signal ?? null })) as ArrayBuffer | Uint8Array;
       return chunkOutcomeSchema.parse(JSON.parse(decoder.decode(buffer)));
     },
     destroy: () => pool.destroy(),
@@ -36,7 +39,7 @@ export function createChunkPool(threads: number = defaultThreadCount()): ChunkPo
 }
 
 /** The outcome of a chunk whose thread failed: every point an infrastructure failure with the reason. */
-export function crashedOutcome(chunk: ChunkTaskPayload, error: unknown): ChunkOutcomePayload {
+export function crashedOutcome(chunk: ChunkTaskPayload, error: unknown, context = 'worker thread failed'): ChunkOutcomePayload {
   return {
     sweep_id: chunk.sweep_id,
     chunk_index: chunk.chunk_index,
@@ -44,7 +47,7 @@ export function crashedOutcome(chunk: ChunkTaskPayload, error: unknown): ChunkOu
     points: chunk.points.map((p) => ({
       point_index: p.point_index,
       point_id: p.point_id,
-      outcome: { kind: 'infrastructure', reason: `worker thread failed: ${error instanceof Error ? error.message : String(error)}`.slice(0, 2000) },
+      outcome: { kind: 'infrastructure', reason: `${context}: ${error instanceof Error ? error.message : String(error)}`.slice(0, 2000) },
     })),
   };
 }

@@ -4,20 +4,21 @@
  * job to the sweep's results queue before returning. Delivery is at least once: a SIGKILLed worker's chunk
  * returns through stalled-job recovery, and the store's writes are idempotent.
  *
- * A chunk whose thread dies is retried (BullMQ attempts); on its last attempt it is split in halves down to
- * single points, and a point that still kills its thread is reported as an infrastructure failure with the
- * reason, so one poison point never blocks a sweep.
+ * A chunk whose thread dies, runs out of memory or hangs past its watchdog is retried (BullMQ attempts); on its
+ * last attempt it is split in halves down to single points, and a point that still fails is reported as an
+ * infrastructure failure with the reason, so one poison point never blocks a sweep (poison-chunks.ts).
  */
 import { hostname } from 'node:os';
 import { Queue, Worker, type Job } from 'bullmq';
 import { crashPoint } from '../shared/crash-point.js';
-import { chunkTaskSchema, type ChunkOutcomePayload, type ChunkTaskPayload } from '../shared/job-payload.js';
+import { chunkTaskSchema, type ChunkOutcomePayload } from '../shared/job-payload.js';
 import { MODEL_VERSION } from '../shared/model-version.js';
 import { redact, redactError } from '../shared/redact.js';
 import { bullConnection, type RedisTarget } from '../shared/redis/redis-connection.js';
 import { heartbeatKey, registryKey, resultsQueueName, versionTag } from '../shared/redis/redis-names.js';
 import { registryEntrySchema, RESULT_JOB_OPTIONS } from '../shared/redis/redis-registry.js';
-import { createChunkPool, crashedOutcome, type ChunkPool } from './chunk-pool.js';
+import { createChunkPool, type ChunkPool } from './chunk-pool.js';
+import { poisonAwareRunner } from './poison-chunks.js';
 
 export interface QueueWorkerOptions {
   readonly target: RedisTarget;
@@ -33,6 +34,8 @@ export interface QueueWorkerOptions {
   readonly verbose?: boolean;
   /** The model version this worker runs (tests pretend to be another). */
   readonly modelVersion?: string;
+  /** Shortest watchdog limit of a chunk, ms (default 60 000; see poison-chunks.ts). */
+  readonly watchdogMinMs?: number;
 }
 
 export interface QueueWorker {
@@ -60,6 +63,7 @@ export async function startQueueWorker(o: QueueWorkerOptions): Promise<QueueWork
   const version = o.modelVersion ?? MODEL_VERSION;
   const connection = bullConnection(o.target.connection);
   const pool: ChunkPool = createChunkPool(o.threads);
+  const runner = poisonAwareRunner(pool, { minMs: o.watchdogMinMs });
   const control = new Queue('control', { connection, prefix: o.target.prefix });
   control.on('error', (e) => logError('redis', e));
   const sweeps = new Map<string, SweepWorker>();
@@ -72,19 +76,6 @@ export async function startQueueWorker(o: QueueWorkerOptions): Promise<QueueWork
     const line = `${where}: ${redactError(error)}`;
     if (line !== lastErrorLine) o.log(line); // one line per distinct error, not one per retry
     lastErrorLine = line;
-  }
-
-  /** Run a chunk; if its thread dies on the last attempt, split it down to single points. */
-  async function runSplitting(task: ChunkTaskPayload, lastAttempt: boolean): Promise<ChunkOutcomePayload> {
-    try {
-      return await pool.run(task);
-    } catch (error) {
-      if (!lastAttempt) throw new Error(redact(`worker thread failed on chunk ${task.chunk_index}: ${redactError(error)}`));
-      if (task.points.length === 1) return crashedOutcome(task, error);
-      const mid = Math.ceil(task.points.length / 2);
-      const halves = await Promise.all([task.points.slice(0, mid), task.points.slice(mid)].map((points) => runSplitting({ ...task, points }, true)));
-      return { ...halves[0], points: [...halves[0].points, ...halves[1].points] };
-    }
   }
 
   function startSweep(chunkQueue: string, sweepId: string): void {
@@ -109,7 +100,12 @@ export async function startQueueWorker(o: QueueWorkerOptions): Promise<QueueWork
         const task = chunkTaskSchema.parse(job.data);
         if (o.verbose === true) o.log(`chunk ${task.chunk_index} of ${sweepId.slice(0, 12)}: started (${task.points.length} points, attempt ${job.attemptsMade + 1})`);
         const lastAttempt = job.attemptsMade + 1 >= (job.opts.attempts ?? 1);
-        const outcome = await runSplitting(task, lastAttempt);
+        let outcome: ChunkOutcomePayload;
+        try {
+          outcome = await runner.run(task, lastAttempt);
+        } catch (error) {
+          throw new Error(redact(`chunk ${task.chunk_index}, attempt ${job.attemptsMade + 1}: ${redactError(error)}`));
+        }
         await results.add('outcome', outcome, RESULT_JOB_OPTIONS);
         crashPoint('after-results-push');
         chunksDone++;

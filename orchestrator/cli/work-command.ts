@@ -11,6 +11,15 @@ import { redisOptions, redisSettings, type RedisFlags } from './redis-flags.js';
 
 type WorkFlags = RedisFlags & { concurrency?: string; verbose?: boolean };
 
+/** DISKSWEEP_TEST_WATCHDOG_MS: the shortest chunk watchdog, for tests of hanging models. */
+function testWatchdogMs(): number | undefined {
+  const text = process.env.DISKSWEEP_TEST_WATCHDOG_MS;
+  if (text === undefined || text === '') return undefined;
+  const r = z.coerce.number().int().min(100).safeParse(text);
+  if (!r.success) throw new DisksweepError('input/invalid-flag', `DISKSWEEP_TEST_WATCHDOG_MS: expected a whole number of ms >= 100 (got "${text}")`);
+  return r.data;
+}
+
 async function workAction(opts: WorkFlags): Promise<number> {
   const log = (line: string): void => void process.stderr.write(redact(line) + '\n');
   const settings = redisSettings(opts, log);
@@ -24,8 +33,9 @@ async function workAction(opts: WorkFlags): Promise<number> {
   const { startQueueWorker } = await import('../../worker/queue-worker.js'); // BullMQ loads only for this command
   const worker = await startQueueWorker({
     target: settings.target, threads, lockMs: settings.lockMs, stalledMs: settings.stalledMs, log, verbose: opts.verbose === true,
-    // Tests pretend to be a worker of another model version; nothing else sets this.
+    // Test hooks (nothing else sets them): pretend to be a worker of another model version; a short watchdog.
     modelVersion: process.env.DISKSWEEP_TEST_MODEL_VERSION || undefined,
+    watchdogMinMs: testWatchdogMs(),
   });
   await new Promise<void>((resolve) => {
     let signals = 0;

@@ -3,8 +3,10 @@
  * index range [k·size, (k+1)·size); a resumed chunk holds only its missing points), keeps the transport's
  * window full (and at most MAX_IN_FLIGHT_POINTS points in flight), and commits outcomes to the store as they
  * arrive (group commit, result-committer.ts). The store is the truth: what is committed is never run again,
- * whatever happens to the process afterwards. The loop yields to the event loop after every chunk it submits,
- * so a sweep of fast models never keeps signals, lock heartbeats or Redis I/O waiting.
+ * whatever happens to the process afterwards. The loop yields to the event loop after every YIELD_POINTS
+ * points it builds (and whenever it waits), so a sweep of fast models never keeps signals, lock heartbeats or
+ * Redis I/O waiting; the slices are counted in work, not time, so what a transport receives between two
+ * yields (e.g. one `addBulk` batch) does not depend on the machine's load.
  */
 import type { ChunkTaskPayload } from '../../shared/job-payload.js';
 import type { SweepStore } from '../store/sweep-store.js';
@@ -17,6 +19,9 @@ import { ResultCommitter, yieldToEventLoop } from './result-committer.js';
  * orchestrator's memory (each kept task holds its parameters) and what a Redis holds for one sweep.
  */
 export const MAX_IN_FLIGHT_POINTS = 50_000;
+
+/** Points built (each a zod parse and a SHA-256) between two yields to the event loop: ~10-50 ms of work. */
+const YIELD_POINTS = 1000;
 
 export interface SweepRunInput {
   readonly sweepId: string;
@@ -85,6 +90,7 @@ export async function runSweep(input: SweepRunInput): Promise<SweepCounts & { in
   const stopped = (): boolean => signal?.aborted === true;
   signal?.addEventListener('abort', () => wake?.(), { once: true });
   let interrupted = false;
+  let builtSinceYield = 0;
   for (let k = 0; k < chunks; k++) {
     if (stopped()) {
       interrupted = true;
@@ -95,6 +101,7 @@ export async function runSweep(input: SweepRunInput): Promise<SweepCounts & { in
     while (full(chunk.points.length) && !stopped()) {
       await new Promise<void>((resolve) => (wake = resolve));
       wake = null;
+      builtSinceYield = 0;
     }
     if (stopped()) {
       interrupted = true;
@@ -102,7 +109,11 @@ export async function runSweep(input: SweepRunInput): Promise<SweepCounts & { in
     }
     committer.track(chunk);
     await transport.submit(chunk);
-    await yieldToEventLoop();
+    builtSinceYield += chunk.points.length;
+    if (builtSinceYield >= YIELD_POINTS) {
+      builtSinceYield = 0;
+      await yieldToEventLoop();
+    }
   }
   await transport.close('graceful');
   return { ...counts, interrupted };

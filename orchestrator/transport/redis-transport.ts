@@ -7,8 +7,9 @@
  * BullMQ's own completion events are not used: results travel only through the results queue.
  *
  * Reconciliation: before a chunk is added its job's state is read; a waiting, delayed or active job is left
- * alone, a completed or failed one (history of an earlier run) is removed and added again, an absent one is
- * added. A sentinel key lets this process notice that Redis lost its data (a restart without persistence) and
+ * alone, and so is one completed since this process started (its results are on their way); a failed one, or
+ * one completed before (history of an earlier run, its results drained), is removed and added again; an absent
+ * one is added. A sentinel key lets this process notice that Redis lost its data (a restart without persistence) and
  * add every uncommitted chunk again by itself.
  */
 import { Queue, Worker, type Job } from 'bullmq';
@@ -77,9 +78,14 @@ export async function createRedisTransport(o: RedisTransportOptions): Promise<Re
     await client.set(sentinelKey(prefix, sweepId), String(entry.since));
     await client.hset(registryKey(prefix), { [chunkQueue]: JSON.stringify(entry) });
   };
+  // Chunk jobs completed before this process started: their results were pushed before they completed, so
+  // `drain` commits them. Such a chunk submitted again is a rerun (an infrastructure error, --retry-failed) and
+  // is added anew; a chunk that completes later has its results on the way and is left alone.
+  let completedBefore: Set<string>;
   try {
     await chunks.waitUntilReady();
     await register();
+    completedBefore = new Set(await chunks.getRanges(['completed'], 0, -1));
   } catch (error) {
     await Promise.allSettled([chunks.close(), results.close()]);
     throw redactedError(error, `cannot reach Redis at ${target.description}`);
@@ -126,11 +132,13 @@ export async function createRedisTransport(o: RedisTransportOptions): Promise<Re
     const fresh: number[] = [];
     for (let i = 0; i < batch.length; i++) {
       const state = states[i];
-      if (state === 'completed' || state === 'failed') {
-        await chunks.remove(chunkJobId(sweepId, batch[i])); // history of an earlier run: it must run again
+      const id = chunkJobId(sweepId, batch[i]);
+      if (state === 'failed' || (state === 'completed' && completedBefore.has(id))) {
+        await chunks.remove(id); // history of an earlier run: it must run again
+        completedBefore.delete(id);
         fresh.push(batch[i]);
       } else if (state === 'unknown') fresh.push(batch[i]);
-      // waiting, delayed, prioritized, active, waiting-children: already on its way
+      // waiting, delayed, prioritized, active, waiting-children, completed since this process started: on its way
     }
     const jobs = fresh.map((k) => ({ name: 'chunk', data: pending.get(k)?.chunk, opts: { ...CHUNK_JOB_OPTIONS, jobId: chunkJobId(sweepId, k) } }));
     const half = process.env.DISKSWEEP_CRASH_AT === 'mid-add-bulk' ? Math.floor(jobs.length / 2) : jobs.length;
