@@ -185,9 +185,7 @@ export function evaluateTargets(store: StoreReader, request: EvaluateRequest): E
 
   registerSplitFunction(db);
   registerCollector(db);
-  const ok = store.statusCounts(sweep.sweepId).byStatus.ok ?? 0;
   // Sized for every point of the sweep; rows that arrive while we read (a running sweep) stay within it.
-  const cap = Math.max(ok, 0);
   const s: Sink = {
     n: 0,
     index: new Uint32Array(sweep.nPoints),
@@ -205,6 +203,9 @@ export function evaluateTargets(store: StoreReader, request: EvaluateRequest): E
     sink = null;
   }
   const n = s.n;
+  // Without --where every ok point is selected; with one, the ok rows are counted apart (a scan of the small
+  // status index, not of the result rows).
+  const ok = request.where === undefined ? n : Math.max(n, store.statusCounts(sweep.sweepId).byStatus.ok ?? 0);
   let passed = 0;
   for (let i = 0; i < n; i++) passed += s.pass[i];
   return {
@@ -213,7 +214,7 @@ export function evaluateTargets(store: StoreReader, request: EvaluateRequest): E
     space,
     targets: request.targets,
     where: request.where ?? null,
-    counts: { points: sweep.nPoints, ok: Math.max(cap, n), selected: n, passed },
+    counts: { points: sweep.nPoints, ok, selected: n, passed },
     pointIndex: s.index.subarray(0, n),
     values: s.values.map((v) => v.subarray(0, n)),
     pass: s.pass.subarray(0, n),

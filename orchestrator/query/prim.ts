@@ -302,6 +302,15 @@ export function chooseStep(trajectory: readonly PrimStats[]): number {
 }
 
 /**
+ * Pasting alone (F&F §4.2): grow the box (lower[j] < x_j < upper[j]) by slices of alpha of its points while
+ * that raises its mean. Returns the grown bounds and how many slices were added.
+ */
+export function pasteBox(x: readonly Float64Array[], y: Uint8Array, lower: Float64Array, upper: Float64Array, alpha = 0.05): { lower: Float64Array; upper: Float64Array; pastes: number } {
+  const grown = new Prim(x, y, alpha, 1).paste(lower, upper);
+  return { lower: grown.lower, upper: grown.upper, pastes: grown.pastes };
+}
+
+/**
  * Find up to `maxBoxes` boxes of high pass rate.
  * @param x one column per dimension, in PRIM space (log10 for log-sampled parameters); equal lengths
  * @param y 1 = pass, 0 = fail, per point

@@ -14,6 +14,7 @@
  *                    the store and the sweep machinery (system-bench.ts)
  *   multi_host       a Redis sweep with its two workers in two network namespaces against both on loopback:
  *                    points/s and their ratio (multihost-bench.ts; skipped unless Linux, root, ip, redis-server)
+ *   query            evaluateTargets, marginals and PRIM on a synthetic 10^6-point database (query-bench.ts)
  * The JS and C step loops run in alternating rounds, so a load spike on a shared machine hits both alike.
  */
 import { arch, availableParallelism, cpus, loadavg, platform } from 'node:os';
@@ -29,6 +30,7 @@ import { makeStepTimer, type StepCaseName, type StepSamples } from './implicit-s
 import { benchIonizationShare, benchRefreshAccuracy } from './ionization-bench.js';
 import { benchModel, type ModelBenchResult } from './model-bench.js';
 import { benchMultiHost } from './multihost-bench.js';
+import { benchQuery } from './query-bench.js';
 import { median, progress, quantile, sig } from './stats.js';
 import { benchSystem } from './system-bench.js';
 
@@ -190,6 +192,8 @@ async function main(): Promise<void> {
 
   const system = await benchSystem();
   const multiHost = await benchMultiHost();
+  // DISKSWEEP_BENCH_QUERY_POINTS shrinks the synthetic database for a quick look (the goals are for 10^6).
+  const query = benchQuery(Number(process.env.DISKSWEEP_BENCH_QUERY_POINTS ?? 1_000_000));
 
   const ratios = c.ratio_js_over_c === null ? [] : Object.values(c.ratio_js_over_c);
   const worst = ratios.length === 0 ? null : Math.max(...ratios);
@@ -205,6 +209,7 @@ async function main(): Promise<void> {
     c_reference: c,
     ...system.sections,
     multi_host: multiHost,
+    query: query.section,
     machine: {
       node: process.version,
       v8: process.versions.v8,
@@ -226,6 +231,7 @@ async function main(): Promise<void> {
       js_over_c_worst: worst,
       js_over_c_met: worst === null ? null : worst <= GOALS.js_over_c_target,
       ...system.goals,
+      ...query.goals,
     },
     bench_wall_s: sig((performance.now() - started) / 1000, 3),
   };

@@ -4,7 +4,7 @@
  * values of a discrete variable at once, and peeling stops at the minimum support beta0.
  */
 import { describe, expect, it } from 'vitest';
-import { argsort, chooseStep, prim } from '../../../orchestrator/query/prim.js';
+import { argsort, chooseStep, pasteBox, prim } from '../../../orchestrator/query/prim.js';
 
 /** Mulberry32: a small seeded generator, so the synthetic data are the same on every run. */
 function rng(seed: number): () => number {
@@ -114,6 +114,25 @@ describe('PRIM', () => {
     // 0.833 reaches it, step 0's 0.531 does not: step 1 is kept.
     const steps = [{ n: 1000, passes: 500 }, { n: 500, passes: 400 }, { n: 100, passes: 90 }].map((s) => ({ ...s, support: 0, coverage: 0, density: s.passes / s.n }));
     expect(chooseStep(steps)).toBe(1);
+  });
+
+  it('pasting grows a box while the added slices raise its mean, and stops where they would lower it', () => {
+    // Pass rate 0.2 below x = 0.3, 0.9 on (0.3, 0.7), 0.2 above: a box (-inf, 0.5) has mean about 0.48 and every
+    // slice added above 0.5 raises it, until x = 0.7, past which slices of 0.2 would lower it (F&F §4.2).
+    const r = rng(13);
+    const n = 20_000;
+    const x = [new Float64Array(n)];
+    const y = new Uint8Array(n);
+    for (let i = 0; i < n; i++) {
+      x[0][i] = r();
+      y[i] = r() < (x[0][i] > 0.3 && x[0][i] < 0.7 ? 0.9 : 0.2) ? 1 : 0;
+    }
+    const grown = pasteBox(x, y, Float64Array.of(-Infinity), Float64Array.of(0.5));
+    expect(grown.pastes).toBeGreaterThan(2);
+    expect(grown.lower[0]).toBe(-Infinity);
+    expect(Math.abs(grown.upper[0] - 0.7)).toBeLessThan(0.03);
+    // A box that already ends at the edge of the high region is not grown.
+    expect(pasteBox(x, y, Float64Array.of(0.3), Float64Array.of(0.7)).pastes).toBe(0);
   });
 
   it('covering finds a second box on the points outside the first', () => {
