@@ -35,9 +35,13 @@ function synthetic(n: number, d: number, box: readonly (readonly [number, number
 }
 
 describe('PRIM', () => {
-  it('argsort sorts, ties in index order', () => {
-    const x = Float64Array.from([3, 1, 2, 1, -5, 3]);
-    expect([...argsort(x)]).toEqual([4, 1, 3, 2, 0, 5]);
+  it('argsort sorts, ties in index order, NaN last', () => {
+    const x = Float64Array.from([3, 1, 2, 1, -5, 3, -0, 0, Number.NaN, -Infinity, 1e-300, -1e-300]);
+    expect([...argsort(x)]).toEqual([9, 4, 11, 6, 7, 10, 1, 3, 2, 0, 5, 8]);
+    const r = rng(2);
+    const many = Float64Array.from({ length: 5000 }, () => (r() - 0.5) * 10 ** Math.floor(r() * 20 - 10) * (r() < 0.1 ? 0 : 1));
+    const expected = [...many.keys()].sort((a, b) => many[a] - many[b] || a - b);
+    expect([...argsort(many)]).toEqual(expected);
   });
 
   it('recovers a known box in the unit cube with 10 % label noise (within 0.04 on every face)', () => {
