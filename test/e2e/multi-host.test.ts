@@ -1,10 +1,11 @@
 /**
  * Workers on other machines, for real: two network namespaces stand in for two hosts, each reaching the Redis
- * of the root namespace only over its own veth link (no loopback, no shared address). One `disksweep work` runs
- * in each. Mid-sweep one host dies (`kill -9` of its worker while it holds a chunk) and the other loses its
+ * of the root namespace only over its own veth link (no loopback, no shared address), with a password read
+ * from a file as deploy/ sets it up. One `disksweep work` runs in each. Mid-sweep one host dies (`kill -9` of its worker while it holds a chunk) and the other loses its
  * network for twice the lock duration; the sweep still completes, with exactly one result per point and the
  * same rows as an embedded run. Linux + root only (CI runs as root); skipped elsewhere with the reason.
  */
+import { writeFileSync } from 'node:fs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { z } from 'zod';
 import { runCli, startCli, stopCli, type CliProcess } from '../support/cli.js';
@@ -32,9 +33,10 @@ const procs: CliProcess[] = [];
 const clientAddresses = (r: TestRedis): Set<string> =>
   new Set([...r.cli(['client', 'list']).matchAll(/\baddr=([0-9.]+):\d+/g)].map((m) => m[1]));
 
-function workerOn(host: NetnsHost, prefix: string): CliProcess {
+function workerOn(host: NetnsHost, prefix: string, passwordFile: string): CliProcess {
   const url = `redis://${host.rootAddress}:${redis?.port ?? 0}`;
-  const p = startCli(['work', '--redis', url, '--redis-prefix', prefix, '--concurrency', '1', '--verbose', ...TIMING], { wrapper: host.wrapper, group: true, timeoutMs: 240_000 });
+  const args = ['work', '--redis', url, '--redis-password-file', passwordFile, '--redis-prefix', prefix, '--concurrency', '1', '--verbose', ...TIMING];
+  const p = startCli(args, { wrapper: host.wrapper, group: true, timeoutMs: 240_000 });
   procs.push(p);
   return p;
 }
@@ -60,16 +62,20 @@ describe.skipIf(unavailable !== null)(`workers on two hosts (network namespaces)
     expect(embedded.status, embedded.stderr).toBe(0);
 
     // Redis listens on the two root-side link addresses only: a host can reach it over its own link alone.
-    redis = await startTestRedis({ bind: [a.rootAddress, b.rootAddress] });
+    // It wants a password, as deploy/ sets it up; every process reads it from a file.
+    const password = `tern-${uniquePrefix('pw')}`;
+    const passwordFile = tmp.file('redis-password');
+    writeFileSync(passwordFile, `${password}\n`, { mode: 0o600 });
+    redis = await startTestRedis({ bind: [a.rootAddress, b.rootAddress], password });
     const prefix = uniquePrefix('hosts');
-    const victim = workerOn(a, prefix);
-    const cut = workerOn(b, prefix);
+    const victim = workerOn(a, prefix, passwordFile);
+    const cut = workerOn(b, prefix, passwordFile);
     await Promise.all([victim, cut].map((w) => w.waitForStderr(/ready: model version/, 30_000)));
     expect(victim.stderr()).toContain(`redis ${a.rootAddress}:${redis.port}`);
     expect(cut.stderr()).toContain(`redis ${b.rootAddress}:${redis.port}`);
 
     const db = tmp.file('hosts.sqlite');
-    const run = startCli(['run', file, '--db', db, '--redis', redis.url, '--redis-prefix', prefix, ...TIMING, '--json'], { group: true, timeoutMs: 240_000 });
+    const run = startCli(['run', file, '--db', db, '--redis', redis.url, '--redis-password-file', passwordFile, '--redis-prefix', prefix, ...TIMING, '--json'], { group: true, timeoutMs: 240_000 });
     procs.push(run);
 
     // Both hosts take chunks, and their connections come from their own link addresses.
@@ -106,5 +112,6 @@ describe.skipIf(unavailable !== null)(`workers on two hosts (network namespaces)
     expect(cut.done, `host B's worker exited:\n${cut.stderr()}`).toBe(false);
     expect(resultsPerPoint(db)).toEqual({ points: POINTS, results: POINTS, maxPerPoint: 1 });
     expect(deterministicRows(db)).toEqual(deterministicRows(tmp.file('embedded.sqlite')));
+    for (const log of [r.stderr, r.stdout, victim.stderr(), cut.stderr()]) expect(log).not.toContain(password);
   }, 240_000);
 });
