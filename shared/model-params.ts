@@ -203,6 +203,16 @@ export const PARAMS = {
     description: 'thermal_ionization=threshold: temperature above which the whole column is MRI-active.',
     source: 'common practice: alkali metals ionize thermally near 1000 K (Umebayashi 1983; Gammie 1996)',
   }),
+  activity_temperature: choice({
+    choices: ['quiescent', 'midplane'],
+    default: 'quiescent',
+    description:
+      'active_layer=ionization: the temperature the ionization kernel and the thermal switch see. "quiescent" = ' +
+      'the midplane temperature the column would have with alpha_dead (plus GI) transport: a column cannot keep ' +
+      'itself active by its own MRI heating, so the inner dead-zone edge is a steady front (no thermal-viscous ' +
+      'cycles, fast); "midplane" = the actual midplane temperature: self-sustained activity and its cycles, followed ' +
+      'step by step (slow: the default infall model needs millions of steps).',
+  }),
   t_mri_halfwidth_k: num({
     unit: 'K', default: 25, min: 0, max: 500,
     description: 'thermal_ionization=threshold: half-width of the smooth blend around t_mri_k (0 = a step).',
@@ -268,6 +278,15 @@ export const PARAMS = {
     unit: 'cm^2 g^-1', default: 1, min: 0, max: 1e4,
     description: 'Constant Rosseland-mean opacity for viscous heating; 0 switches viscous heating off.',
     source: 'common practice: dusty gas below ~150 K has kappa of order 1 cm^2/g',
+  }),
+  thermal_inertia: choice({
+    choices: ['off', 'on'],
+    default: 'off',
+    description:
+      'Midplane temperature: "off" = thermal equilibrium at every step; "on" = the one-zone energy equation, ' +
+      'T relaxing toward equilibrium on the cooling time 3 kappa Sigma^2 c_v/(16 sigma_SB T^3) (~1/(alpha Omega)), ' +
+      'so a column that crosses the MRI threshold heats or cools over that time (matters with ' +
+      'activity_temperature=midplane).',
   }),
   t_floor_k: num({
     unit: 'K', default: 10, min: 0, max: 1000,

@@ -101,6 +101,7 @@ export function ionizationOptionsFromParams(p: ModelParams, nCells: number): Ion
     nz: p.n_z,
     sigmaFloor: p.sigma_ion_floor_g_cm2,
     refreshTolerance: p.ion_refresh_tol,
+    activityTemperature: p.activity_temperature === 'midplane' ? 'midplane' : 'quiescent',
   };
 }
 
@@ -148,10 +149,12 @@ export function setupModel(p: ModelParams): ModelSetup {
       opacity: constantOpacity(p.kappa_cm2_g),
       gi: p.gi_transport === 'on' ? { qCrit: p.q_crit, alphaMax: p.alpha_gi_max } : null,
       baseTemperature4,
+      thermalInertia: p.thermal_inertia === 'on',
     },
     theta: p.theta,
     picardIterations: p.picard_iterations,
     stepChange: p.step_change,
+    linearizeFlux: true,
     maxSteps: p.max_steps,
     tEnd,
     eventTimes: [...checkpointTimes, ...averageStartTimes, ...seriesTimes],

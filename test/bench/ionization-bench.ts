@@ -1,6 +1,7 @@
 /**
  * The ionization part of `npm run bench`:
- * - share: the fraction of a model's wall time spent in the ionization Σ_a provider. Measured by replay, not
+ * - share: the fraction of a model's wall time spent in the ionization Σ_a provider (and the quiescent
+ *   temperature its thermal switch reads). Measured by replay, not
  *   by timers around 10^5 tiny calls: the run is repeated with a provider that returns the recorded Σ_a values
  *   in call order (the same trajectory, bit for bit, at no cost), and share = 1 − t_replay / t_real.
  * - refresh accuracy: every checkpoint output of a run with the default refresh tolerance against the same run
@@ -37,11 +38,13 @@ export function benchIonizationShare(params: Record<string, unknown>, runs: numb
   const setup = setupModel(parseModelParams(params)).evolve;
   const real = setup.transport.activeColumn;
   const recorded: number[] = [];
+  // The recorder asks for the quiescent temperature like the real provider (same trajectory); the replay does
+  // not, so the share includes the work of the quiescent-temperature switch done on the provider's behalf.
   const recorder = Object.assign((cell: ActiveLayerInput): number => {
     const v = real(cell);
     recorded.push(v);
     return v;
-  }, { reset: () => real.reset?.() });
+  }, { reset: () => real.reset?.(), quiescentFrom: real.quiescentFrom });
   const reference = evolveDisk(withProvider(setup, recorder));
   let k = 0;
   const replay = Object.assign((): number => recorded[k++], { reset: () => { k = 0; } });

@@ -17,13 +17,26 @@ export interface ActiveLayerInput {
   readonly time: number;
   /** Index of the cell on the grid, so a provider can keep per-cell state from one pass to the next. */
   readonly index: number;
+  /**
+   * Midplane temperature the column would have with dead-zone transport only (α_dead, plus gravitational
+   * instability), K, for providers that ask for it (`quiescentFrom`); where the midplane is cooler than
+   * `quiescentFrom` it is the midplane temperature itself (the quiescent one is lower still).
+   */
+  readonly quiescentTemperature?: number;
 }
 
 /**
  * Σ_a of one cell, g cm^-2. A provider that keeps state between calls (a cache) exposes `reset`, which the
  * integrator calls when a run starts, so that a run stays a pure function of its parameters.
  */
-export type ActiveColumn = ((cell: ActiveLayerInput) => number) & { readonly reset?: () => void };
+export type ActiveColumn = ((cell: ActiveLayerInput) => number) & {
+  readonly reset?: () => void;
+  /**
+   * Set when the provider reads `quiescentTemperature` (a thermal switch on the dead column's temperature): the
+   * midplane temperature, K, from which on it needs the quiescent one (below, the switch is off either way).
+   */
+  readonly quiescentFrom?: number;
+};
 
 export interface ActiveLayerProvider<Options> {
   readonly name: string;

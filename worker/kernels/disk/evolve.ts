@@ -20,6 +20,7 @@ import { spinAngularMomentum } from './stellar-spin.js';
 import type { TransportPhysics, TransportSummary } from './transport-coefficients.js';
 import { computeTransportCoefficients } from './transport-coefficients.js';
 import type { EdgeCondition } from './viscous-transport.js';
+import { linearizeFlux, perturbSigma } from './flux-linearization.js';
 import { makeTransportWorkspace, viscousStep } from './viscous-transport.js';
 
 export interface InfallSetup {
@@ -58,6 +59,8 @@ export interface EvolveSetup {
   readonly theta: number;
   readonly picardIterations: number;
   readonly stepChange: number;
+  /** Newton-linearised implicit flux (flux-linearization.ts) instead of lagged ν. */
+  readonly linearizeFlux?: boolean;
   readonly maxSteps: number;
   /** End time, s. */
   readonly tEnd: number;
@@ -169,6 +172,9 @@ export function evolveDisk(setup: EvolveSetup, observer: EvolveObserver = {}): E
   const omega = new Float64Array(n);
   const source = new Float64Array(n);
   const ws = makeTransportWorkspace(n);
+  const lin = setup.linearizeFlux === true
+    ? { sigma: new Float64Array(n), nu: new Float64Array(n), temperature: new Float64Array(n), nuImplicit: new Float64Array(n), offset: new Float64Array(n) }
+    : null;
   const events = sortedEvents(setup);
 
   const mDisk0 = diskMass(grid, sigma);
@@ -188,6 +194,7 @@ export function evolveDisk(setup: EvolveSetup, observer: EvolveObserver = {}): E
   const fail = (status: ModelStatus, reason: string): EvolveOutcome => ({ status, reason, state });
 
   let dt = setup.initialDt;
+  let dtTaken = 0;
   let next = 0;
   while (next < events.length) {
     if (state.steps >= setup.maxSteps) {
@@ -218,15 +225,21 @@ export function evolveDisk(setup: EvolveSetup, observer: EvolveObserver = {}): E
       const edges = validationEdges;
       const edgeAt = (f: ((s: number) => number) | undefined): EdgeCondition =>
         f === undefined ? null : theta * f(t + dtTry) + (1 - theta) * f(t);
+      if (lin !== null && retry === 0) {
+        perturbSigma(sigma, lin.sigma);
+        lin.temperature.set(fields.temperature);
+        computeTransportCoefficients(grid, lin.sigma, omega, transport, { nu: lin.nu, temperature: lin.temperature }, t);
+        linearizeFlux(sigma, grid.sqrtCenters, fields.nu, lin.nu, lin.nuImplicit, lin.offset);
+      }
       const input = {
-        grid, sigma, nuExplicit: fields.nu, nuImplicit: fields.nu, massSource: infallOn ? source : null,
-        dt: dtTry, theta, inner: edgeAt(edges?.inner), outer: edgeAt(edges?.outer),
+        grid, sigma, nuExplicit: fields.nu, nuImplicit: lin === null ? fields.nu : lin.nuImplicit, massSource: infallOn ? source : null,
+        implicitOffset: lin === null ? null : lin.offset, dt: dtTry, theta, inner: edgeAt(edges?.inner), outer: edgeAt(edges?.outer),
       };
       let flows = viscousStep(input, ws, sigmaNew);
       for (let k = 0; k < setup.picardIterations; k++) {
         tempScratch.set(fields.temperature);
-        computeTransportCoefficients(grid, sigmaNew, omega, transport, { nu: nuNew, temperature: tempScratch }, t + dtTry);
-        flows = viscousStep({ ...input, nuImplicit: nuNew }, ws, sigmaNew);
+        computeTransportCoefficients(grid, sigmaNew, omega, transport, { nu: nuNew, temperature: tempScratch }, t + dtTry, dtTry);
+        flows = viscousStep({ ...input, nuImplicit: nuNew, implicitOffset: null }, ws, sigmaNew);
       }
 
       // Change measure and validity of the new state.
@@ -267,6 +280,7 @@ export function evolveDisk(setup: EvolveSetup, observer: EvolveObserver = {}): E
 
       // Accept: bookkeeping with the j_i the step used (M_* at its start).
       accepted = true;
+      dtTaken = dtTry;
       const b = state.budget;
       const gm = Math.sqrt(G_CGS * state.mStar);
       b.massAccreted += flows.mdotInner * dtTry;
@@ -304,7 +318,7 @@ export function evolveDisk(setup: EvolveSetup, observer: EvolveObserver = {}): E
     }
     if (!accepted) return fail('step_collapse', `no acceptable step after ${MAX_RETRIES} retries at t = ${t.toExponential(4)} s`);
 
-    state.transport = computeTransportCoefficients(grid, sigma, omega, transport, fields, state.t);
+    state.transport = computeTransportCoefficients(grid, sigma, omega, transport, fields, state.t, dtTaken);
     observer.onStep?.(state);
     while (next < events.length && events[next] <= state.t) {
       observer.onEvent?.(state);

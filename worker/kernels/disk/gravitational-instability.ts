@@ -30,7 +30,8 @@ export function alphaGravitationalInstability(
  * γ = 7/5 and τ = κΣ/2. It is a flag for a regime the 1-D model cannot follow, not a model of fragmentation.
  */
 export const FRAGMENTATION_BETA = 3;
-const GAMMA_ADIABATIC = 1.4;
+/** Adiabatic index of the H₂-dominated gas (rotation excited, vibration not), common practice. */
+export const GAMMA_ADIABATIC = 1.4;
 
 export function coolingTimeOmega(
   sigma: number,

@@ -51,6 +51,11 @@ export interface TransportStepInput {
   readonly nuExplicit: Float64Array;
   /** ν for the implicit part (lagged: the same array as nuExplicit; Picard: from the latest estimate). */
   readonly nuImplicit: Float64Array;
+  /**
+   * Linearised flux (Newton): the implicit X'_i = ν_imp,i Σ'_i √R_i + offset_i, with ν_imp = d(νΣ)/dΣ and
+   * offset = (νΣ − ν_imp Σ)√R at the start of the step (flux-linearization.ts); null: X'_i = ν_imp,i Σ'_i √R_i.
+   */
+  readonly implicitOffset?: Float64Array | null;
   /** Mass added per cell per unit time (infall, later minus winds), g s^-1; null for none. */
   readonly massSource: Float64Array | null;
   readonly dt: number;
@@ -75,6 +80,7 @@ const THREE_PI = 3 * Math.PI;
  */
 export function viscousStep(input: TransportStepInput, ws: TransportWorkspace, sigmaOut: Float64Array): BoundaryFlows {
   const { grid, sigma, nuExplicit, nuImplicit, massSource, dt, theta, inner, outer } = input;
+  const offset = input.implicitOffset ?? null;
   const { n, area, sqrtCenters, edgeWeight: w } = grid;
   const { lower, diag, upper, rhs, scratch } = ws;
   const implicit = theta * dt * THREE_PI;
@@ -111,6 +117,13 @@ export function viscousStep(input: TransportStepInput, ws: TransportWorkspace, s
     upper[i] = -implicit * wAbove * cNext;
     diag[i] = area[i] + implicit * (wBelow + wAbove) * cCur;
     let b = area[i] * sigma[i] + explicit * (flowAbove - flowBelow);
+    if (offset !== null) {
+      // The known part of the implicit flows, w (offset_{i+1} − offset_i) above minus the same below.
+      const oCur = offset[i];
+      const oAbove = last ? 0 : offset[i + 1];
+      const oBelow = i === 0 ? 0 : offset[i - 1];
+      b += implicit * (wAbove * (oAbove - oCur) - wBelow * (oCur - oBelow));
+    }
     if (massSource !== null) b += dt * massSource[i];
     if (i === 0 && inner !== null) b -= dt * inner;
     if (last && outer !== null) b += dt * outer;
@@ -123,11 +136,9 @@ export function viscousStep(input: TransportStepInput, ws: TransportWorkspace, s
   solveTridiagonal(lower, diag, upper, rhs, sigmaOut, scratch, n);
 
   // Boundary flows over the step, θ-weighted exactly as the rows above book them.
-  const mdotInner =
-    inner !== null
-      ? inner
-      : THREE_PI * (wIn * theta * nuImplicit[0] * sigmaOut[0] * sqrtCenters[0] + (1 - theta) * flowInner);
-  const xOutNew = nuImplicit[n - 1] * sigmaOut[n - 1] * sqrtCenters[n - 1];
+  const x0New = nuImplicit[0] * sigmaOut[0] * sqrtCenters[0] + (offset === null ? 0 : offset[0]);
+  const mdotInner = inner !== null ? inner : THREE_PI * (wIn * theta * x0New + (1 - theta) * flowInner);
+  const xOutNew = nuImplicit[n - 1] * sigmaOut[n - 1] * sqrtCenters[n - 1] + (offset === null ? 0 : offset[n - 1]);
   const mdotOuter = outer !== null ? -outer : THREE_PI * (wOut * theta * xOutNew - (1 - theta) * explicitOuter);
   return { mdotInner, mdotOuter };
 }

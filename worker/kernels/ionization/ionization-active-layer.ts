@@ -11,6 +11,18 @@
  *   extra input) or the radionuclide rate changed by more than it since the last such global refresh. L_X is a
  *   constant of the run. Between refreshes a cell keeps its Σ_a,ion in g cm^-2 (a layer's depth is set by
  *   the penetration of the rays, not by the total column), or "all of it" if it was fully active.
+ * Which temperature: with `activityTemperature = 'quiescent'` (the default) the kernel and the thermal switch see
+ * the temperature the column would have with dead-zone transport only (α_dead plus gravitational instability;
+ * transport-coefficients.ts), not the midplane temperature the column's own MRI heating raises. Why: with the
+ * midplane temperature, a column between the two ends of the thermal S-curve is bistable — dead and cool, or
+ * active and kept hot by its own dissipation — and a one-zone cell there cycles (thermal–viscous instability).
+ * Near the inner dead-zone edge of the default infall model (0.2–0.35 AU, Σ ~ 10³–10⁴ g cm⁻²) a cell fills
+ * from its neighbours in 2–30 yr, so cells wider than the front width H cycle every few decades; following
+ * that needs ~10⁵ steps per 10⁴ yr. The quiescent temperature depends on Σ (and R, t) alone, so Σ_a and
+ * α_eff rise monotonically with Σ: νΣ is monotonic and the edge is a steady, regulated front. What is lost:
+ * thermal–viscous cycles and MRI outbursts sustained by their own heating (GI heating still counts, so a pile-up
+ * that heats by GI is activated, but steadily). 'midplane' keeps the self-heated switch, with its cycles and
+ * its cost. Grain-free, vertically isothermal: see README validity limits.
  * The cache lives in the provider, `reset` empties it, and the integrator calls `reset` at the start of a run;
  * the calls come in the same order in every run, so the same parameters give the same numbers, bit for bit.
  */
@@ -45,6 +57,12 @@ export interface IonizationLayerOptions {
   readonly sigmaFloor: number;
   /** Relative change of Σ, T, M_* or ζ_R that triggers a re-evaluation; 0 = whenever anything changed. */
   readonly refreshTolerance: number;
+  /**
+   * Which temperature the thermal switch sees: 'quiescent' = the dead column's
+   * (`ActiveLayerInput.quiescentTemperature`), 'midplane' = the midplane temperature itself. The kernel always
+   * sees the midplane temperature.
+   */
+  readonly activityTemperature: 'quiescent' | 'midplane';
 }
 
 /** Work counters of one run, for the benchmark. */
@@ -73,6 +91,7 @@ export function createIonizationActiveColumn(o: IonizationLayerOptions): Ionizat
   let generation = 0;
   let refGm = NaN;
   let refZetaRadio = NaN;
+  const quiescent = o.activityTemperature === 'quiescent';
 
   const reset = (): void => {
     lastGeneration.fill(0);
@@ -84,6 +103,7 @@ export function createIonizationActiveColumn(o: IonizationLayerOptions): Ionizat
 
   const column = (cell: ActiveLayerInput): number => {
     const { sigma, temperature, radius, omega, time, index } = cell;
+    const switchTemperature = quiescent ? (cell.quiescentTemperature ?? temperature) : temperature;
     stats.calls++;
     const gm = omega * omega * radius * radius * radius;
     const zetaRadio = radionuclideRate(rn.zetaAl26, rn.zetaK40, rn.meanLife, time);
@@ -94,7 +114,7 @@ export function createIonizationActiveColumn(o: IonizationLayerOptions): Ionizat
       stats.globalRefreshes++;
     }
     if (sigma <= o.sigmaFloor) return sigma;
-    const w = o.thermal.kind === 'threshold' ? thermalWeight(temperature, o.thermal.tMri, o.thermal.halfWidth) : 0;
+    const w = o.thermal.kind === 'threshold' ? thermalWeight(switchTemperature, o.thermal.tMri, o.thermal.halfWidth) : 0;
     if (w >= 1) return sigma;
     let ion: number;
     if (
@@ -119,7 +139,8 @@ export function createIonizationActiveColumn(o: IonizationLayerOptions): Ionizat
     }
     return blendThermal(sigma, ion, w);
   };
-  return Object.assign(column, { reset, stats });
+  const quiescentFrom = quiescent && o.thermal.kind === 'threshold' ? o.thermal.tMri - o.thermal.halfWidth : undefined;
+  return Object.assign(column, { reset, stats, quiescentFrom });
 }
 
 /** Σ_a from the ionization kernel: X-rays, cosmic rays, radionuclides, FUV; grain-free chemistry. */

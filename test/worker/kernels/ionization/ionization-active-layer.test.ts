@@ -8,6 +8,9 @@ import { AU_CGS, GM_SUN_CGS } from '../../../../shared/constants.js';
 import { DisksweepError } from '../../../../shared/errors.js';
 import { parseModelParams } from '../../../../shared/model-params.js';
 import { fixedColumnActiveLayer, uniformActiveLayer, type ActiveColumn, type ActiveLayerInput } from '../../../../worker/kernels/disk/active-layer.js';
+import { makeLogGrid } from '../../../../worker/kernels/disk/grid.js';
+import { constantOpacity } from '../../../../worker/kernels/disk/opacity.js';
+import { computeTransportCoefficients, type TransportPhysics } from '../../../../worker/kernels/disk/transport-coefficients.js';
 import { prepareColumn, solveActiveColumn } from '../../../../worker/kernels/ionization/active-column.js';
 import { createIonizationActiveColumn } from '../../../../worker/kernels/ionization/ionization-active-layer.js';
 import { blendThermal, thermalWeight } from '../../../../worker/kernels/ionization/thermal-activation.js';
@@ -116,6 +119,51 @@ describe('ionization provider', () => {
   });
 });
 
+describe('which temperature the thermal switch sees (activity_temperature)', () => {
+  const hot = (quiescentTemperature: number): ActiveLayerInput => ({ ...cell(0.3, 1000, 1200), quiescentTemperature });
+
+  it('quiescent (the default): the switch reads the dead column\'s temperature, the kernel the midplane one', () => {
+    const p = createIonizationActiveColumn(ionOptions());
+    expect(p.quiescentFrom).toBe(975);
+    const ionOnly = createIonizationActiveColumn(ionOptions({ thermal_ionization: 'none' }))(cell(0.3, 1000, 1200));
+    expect(ionOnly).toBeLessThan(1000);
+    expect(p(hot(800))).toBe(ionOnly); // hot midplane, cool quiescent column: not thermally active
+    expect(p(hot(1100))).toBe(1000);
+    const mid = createIonizationActiveColumn(ionOptions({ activity_temperature: 'midplane' }));
+    expect(mid.quiescentFrom).toBeUndefined();
+    expect(mid(hot(800))).toBe(1000); // the midplane switch ignores it
+  });
+
+  it('a column heated into activity by its own MRI is bistable with the midplane switch, single-valued with the quiescent one', () => {
+    // 0.3 AU, Σ = 1000 g cm^-2, κ = 1: alpha_active heating alone gives ~1500 K, alpha_dead heating ~320 K.
+    const grid = makeLogGrid(0.299 * AU_CGS, 0.301 * AU_CGS, 2);
+    const sigma = Float64Array.of(1000, 1000);
+    const omega = grid.centers.map((r) => Math.sqrt(GM_SUN_CGS / r ** 3));
+    const physics = (activity: string): TransportPhysics => ({
+      alphaActive: 0.01, alphaDead: 1e-4, opacity: constantOpacity(1), gi: null, baseTemperature4: Float64Array.of(100 ** 4, 100 ** 4),
+      activeColumn: createIonizationActiveColumn({ ...ionOptions({ activity_temperature: activity, ion_refresh_tol: 0 }), nCells: 2 }),
+    });
+    const settle = (activity: string, tStart: number) => {
+      const fields = { nu: new Float64Array(2), temperature: Float64Array.of(tStart, tStart), sigmaActive: new Float64Array(2) };
+      const ph = physics(activity);
+      for (let k = 0; k < 20; k++) computeTransportCoefficients(grid, sigma, omega, ph, fields);
+      return { t: fields.temperature[0], active: fields.sigmaActive[0] / sigma[0] };
+    };
+    const midHot = settle('midplane', 1500);
+    const midCold = settle('midplane', 300);
+    expect(midHot.active).toBe(1);
+    expect(midHot.t).toBeGreaterThan(1025);
+    expect(midCold.active).toBeLessThan(0.5);
+    expect(midCold.t).toBeLessThan(975);
+    const qHot = settle('quiescent', 1500);
+    const qCold = settle('quiescent', 300);
+    // One state from either start (to the fixed-point iteration's convergence).
+    expect(Math.abs(qHot.t - qCold.t) / qCold.t).toBeLessThan(1e-9);
+    expect(Math.abs(qHot.active - qCold.active)).toBeLessThan(1e-9);
+    expect(qHot.active).toBeLessThan(0.5);
+  });
+});
+
 describe('ionization parameters are validated like every other (invalid next to valid)', () => {
   it.each([
     [{ zeta_cr_s: -1e-17 }, 'zeta_cr_s'],
@@ -126,6 +174,9 @@ describe('ionization parameters are validated like every other (invalid next to 
     [{ mri_criterion: 'ambipolar' }, 'mri_criterion'],
     [{ ion_refresh_tol: 2 }, 'ion_refresh_tol'],
     [{ active_layer: 'ionisation' }, 'active_layer'],
+    [{ activity_temperature: 'actual' }, 'activity_temperature'],
+    [{ xray_spectrum: '4kev' }, 'xray_spectrum'],
+    [{ thermal_inertia: 'yes' }, 'thermal_inertia'],
   ])('%o is refused, naming %s', (bad, name) => {
     let details: readonly string[] = [];
     try {
@@ -137,7 +188,7 @@ describe('ionization parameters are validated like every other (invalid next to 
     expect(details[0].startsWith(`${name}:`)).toBe(true);
   });
 
-  it.each([{ zeta_cr_s: 0 }, { lx_erg_s: 0 }, { n_z: 4 }, { ion_chemistry: 'metals', x_metal: 1e-10 }, { ion_refresh_tol: 0 }])('%o is accepted', (good) => {
+  it.each([{ zeta_cr_s: 0 }, { lx_erg_s: 0 }, { n_z: 4 }, { ion_chemistry: 'metals', x_metal: 1e-10 }, { ion_refresh_tol: 0 }, { activity_temperature: 'midplane' }, { xray_spectrum: '3kev' }, { thermal_inertia: 'on' }])('%o is accepted', (good) => {
     expect(() => parseModelParams({ active_layer: 'ionization', ...good })).not.toThrow();
   });
 });

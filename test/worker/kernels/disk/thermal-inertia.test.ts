@@ -1,0 +1,79 @@
+/**
+ * Thermal inertia of the midplane (thermal-inertia.ts): the one-zone energy equation dT/dt = k (A T + C − T⁴)
+ * stepped by backward Euler, checked against its analytic limits and one analytic solution.
+ */
+import { describe, expect, it } from 'vitest';
+import { K_BOLTZMANN_CGS, MEAN_MOLECULAR_WEIGHT, M_HYDROGEN_CGS, SIGMA_SB_CGS } from '../../../../shared/constants.js';
+import { GAMMA_ADIABATIC } from '../../../../worker/kernels/disk/gravitational-instability.js';
+import {
+  SPECIFIC_HEAT_CGS,
+  coolingRateCoefficient,
+  coolingTime,
+  relaxTemperature,
+} from '../../../../worker/kernels/disk/thermal-inertia.js';
+import { solveMidplaneTemperature, viscousHeatingCoefficient } from '../../../../worker/kernels/disk/thermal-structure.js';
+
+const rel = (a: number, b: number): number => Math.abs(a - b) / Math.abs(b);
+
+describe('the one-zone energy equation (Pringle 1981; Frank, King & Raine 2002)', () => {
+  it('c_v = k_B/((γ − 1) μ m_H) with γ = 7/5 (H2-dominated gas; common practice)', () => {
+    expect(GAMMA_ADIABATIC).toBe(1.4);
+    expect(rel(SPECIFIC_HEAT_CGS, K_BOLTZMANN_CGS / (0.4 * MEAN_MOLECULAR_WEIGHT * M_HYDROGEN_CGS))).toBeLessThan(1e-14);
+  });
+
+  it('t_cool = 3 κ Σ² c_v / (16 σ T³) (optically thick, τ = κΣ/2)', () => {
+    const [kappa, sigma, t] = [1, 3000, 1000];
+    expect(rel(coolingTime(kappa, sigma, t), (3 * kappa * sigma ** 2 * SPECIFIC_HEAT_CGS) / (16 * SIGMA_SB_CGS * t ** 3))).toBeLessThan(1e-14);
+    // Near a dead-zone edge at 0.2-0.3 AU the cooling time is decades to centuries, not zero (header of thermal-inertia.ts).
+    const yr = 3.15576e7;
+    expect(coolingTime(1, 1000, 1000) / yr).toBeGreaterThan(5);
+    expect(coolingTime(1, 6000, 1000) / yr).toBeLessThan(400);
+  });
+
+  it('where viscous heating holds the balance, t_cool = 4/(9 (γ − 1) α Ω): the thermal time ~ 1/(α Ω)', () => {
+    const [kappa, sigma, alpha, omega] = [1, 2000, 0.01, 2e-7];
+    const a = viscousHeatingCoefficient(kappa, sigma, alpha, omega);
+    const t = solveMidplaneTemperature(a, 0); // T⁴ = A T: viscous heating only
+    expect(rel(coolingTime(kappa, sigma, t), 4 / (9 * (GAMMA_ADIABATIC - 1) * alpha * omega))).toBeLessThan(1e-12);
+  });
+});
+
+describe('backward-Euler relaxation', () => {
+  const [a, c] = [2e7, 1e11]; // K^3, K^4: T_eq ≈ 690 K
+  const tEq = solveMidplaneTemperature(a, c);
+
+  it('an infinitely long step (or no earlier temperature) gives the equilibrium; a zero step keeps T', () => {
+    expect(relaxTemperature(a, c, 300, Infinity, tEq)).toBe(tEq);
+    expect(relaxTemperature(a, c, 0, 1e-9, tEq)).toBe(tEq);
+    expect(relaxTemperature(a, c, 300, 0, tEq)).toBe(300);
+  });
+
+  it('solves T − T_old = h (A T + C − T⁴) and lies between T_old and T_eq, from below and from above', () => {
+    for (const tOld of [200, 2000]) {
+      for (const h of [1e-13, 1e-11, 1e-9, 1e-6]) {
+        const t = relaxTemperature(a, c, tOld, h, tEq);
+        expect(Math.abs(t - tOld - h * (a * t + c - t ** 4)) / t).toBeLessThan(1e-12);
+        expect(t).toBeGreaterThanOrEqual(Math.min(tOld, tEq));
+        expect(t).toBeLessThanOrEqual(Math.max(tOld, tEq));
+      }
+    }
+  });
+
+  it('pure radiative cooling follows T(t) = T₀ (1 + 3 k T₀³ t)^(-1/3) with first-order error', () => {
+    // dT/dt = −k T⁴ (A = C = 0) has this closed form; backward Euler converges to it at order 1.
+    const k = coolingRateCoefficient(1, 1000);
+    const t0 = 1500;
+    const tEnd = 3 * coolingTime(1, 1000, t0);
+    const exact = t0 * (1 + 3 * k * t0 ** 3 * tEnd) ** (-1 / 3);
+    const errorWith = (steps: number): number => {
+      let t = t0;
+      for (let s = 0; s < steps; s++) t = relaxTemperature(0, 0, t, k * (tEnd / steps), 0);
+      return Math.abs(t - exact) / exact;
+    };
+    const coarse = errorWith(200);
+    const fine = errorWith(400);
+    expect(coarse).toBeLessThan(5e-3);
+    expect(coarse / fine).toBeGreaterThan(1.9);
+    expect(coarse / fine).toBeLessThan(2.1);
+  });
+});
