@@ -5,7 +5,7 @@
  * lines and run); the systemd unit has the keys a worker service needs; Redis accepts deploy/redis.conf.
  */
 import { spawn, spawnSync } from 'node:child_process';
-import { readFileSync, symlinkSync, writeFileSync } from 'node:fs';
+import { existsSync, readFileSync, symlinkSync, writeFileSync } from 'node:fs';
 import { join, posix } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { parse } from 'yaml';
@@ -95,6 +95,39 @@ describe('deploy/compose.yaml', () => {
     expect(outlastsAnyChunk(durationSeconds(worker.stop_grace_period ?? '10s'))).toBe(true);
     expect(orchestrator.restart, 'a finished sweep must not start again').toBe('no');
     expect(orchestrator.stop_signal).toBe('SIGINT');
+  });
+});
+
+describe('README.md, "Running on several machines"', () => {
+  const readme = readFileSync(join(REPO_DIR, 'README.md'), 'utf8');
+  const start = readme.indexOf('\n## Running on several machines');
+  const section = readme.slice(start, readme.indexOf('\n## ', start + 1));
+  const commands = [...section.matchAll(/```sh\n([\s\S]*?)```/g)]
+    .flatMap((m) => m[1].replace(/\\\n\s*/g, ' ').split('\n'))
+    .map((l) => l.replace(/\s+#.*$/, '').trim())
+    .filter((l) => l !== '' && !l.startsWith('#'));
+
+  it('runs real subcommands and flags, compose services and files of deploy/', () => {
+    expect(start).toBeGreaterThan(0);
+    const services = Object.keys(composeSchema.parse(parse(readDeploy('compose.yaml'), { merge: true })).services);
+    let cliCommands = 0;
+    for (const line of commands) {
+      const words = line.split(/\s+/);
+      // `disksweep SUB ...` directly, or the image's entrypoint after `docker compose ... run --rm SERVICE`
+      const cli = words.indexOf('disksweep');
+      const run = words.indexOf('--rm');
+      if (cli >= 0) expectCliCommand(words.slice(cli + 1), `README: ${line}`);
+      if (run >= 0 && words.length > run + 2) expectCliCommand(words.slice(run + 2), `README: ${line}`);
+      if (cli >= 0 || (run >= 0 && words.length > run + 2)) cliCommands++;
+      if (words.includes('compose')) {
+        const named = words.slice(words.indexOf('compose') + 1).filter((w, i, all) => services.includes(w) && all[i - 1] !== '-f');
+        expect(named.length, `README: ${line} names a service of compose.yaml`).toBeGreaterThan(0);
+      }
+      for (const path of line.match(/\bdeploy\/[\w.-]+/g) ?? []) {
+        if (path !== 'deploy/redis-password.txt') expect(existsSync(join(REPO_DIR, path)), `README: ${path}`).toBe(true);
+      }
+    }
+    expect(cliCommands).toBeGreaterThanOrEqual(3);
   });
 });
 

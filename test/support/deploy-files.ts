@@ -79,20 +79,30 @@ export function durationSeconds(text: string): number {
 /** Replace compose's `${NAME:-default}` by its default (what runs when the variable is not set). */
 export const composeDefaults = (text: string): string => text.replace(/\$\{[A-Z0-9_]+:-([^}]*)\}/g, '$1');
 
-/** The subcommands of the built CLI (from `disksweep --help`). */
+let subcommands: string[] | undefined;
+
+/** The subcommands of the built CLI (from `disksweep --help`, read once). */
 export function cliSubcommands(): string[] {
+  if (subcommands !== undefined) return subcommands;
   const help = runCli(['--help']);
   if (help.status !== 0) throw new Error(`disksweep --help failed: ${help.stderr}`);
   const block = help.stdout.split(/\nCommands:\n/)[1]?.split(/\n\n/)[0] ?? '';
-  return [...block.matchAll(/^ {2}([a-z][a-z-]*)/gm)].map((m) => m[1]);
+  subcommands = [...block.matchAll(/^ {2}([a-z][a-z-]*)/gm)].map((m) => m[1]);
+  return subcommands;
 }
 
-/** The long flags a subcommand of the built CLI accepts (from `disksweep SUB --help`). */
+const flagsBySubcommand = new Map<string, Set<string>>();
+
+/** The long flags a subcommand of the built CLI accepts (from `disksweep SUB --help`, read once). */
 export function cliFlags(subcommand: string): Set<string> {
+  const known = flagsBySubcommand.get(subcommand);
+  if (known !== undefined) return known;
   const help = runCli([subcommand, '--help']);
   if (help.status !== 0) throw new Error(`disksweep ${subcommand} --help failed: ${help.stderr}`);
   const options = help.stdout.split(/\nOptions:\n/)[1]?.split(/\n\n/)[0] ?? '';
-  return new Set([...options.matchAll(/^ {2}(?:-[a-zA-Z], )?(--[a-z][a-z-]*)/gm)].map((m) => m[1]));
+  const flags = new Set([...options.matchAll(/^ {2}(?:-[a-zA-Z], )?(--[a-z][a-z-]*)/gm)].map((m) => m[1]));
+  flagsBySubcommand.set(subcommand, flags);
+  return flags;
 }
 
 /** Where a stage of a Dockerfile lives on this machine: its root directory, and its WORKDIR inside the image. */
