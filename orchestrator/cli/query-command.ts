@@ -9,9 +9,10 @@ import { DisksweepError } from '../../shared/errors.js';
 import { answerQuery } from '../query/answer.js';
 import { evaluateTargets } from '../query/evaluate.js';
 import { filterNameLines } from '../query/names.js';
-import { parseTarget, targetHelpLines } from '../query/targets.js';
+import { targetHelpLines } from '../query/targets.js';
 import { openStore } from '../store/index.js';
 import { formatQueryReport, queryAnswerJson } from './query-report.js';
+import { parseTargetFlags, withTargetOptions } from './target-flags.js';
 
 const QUERY_HELP = `
 Targets (--target, repeatable: all must hold). Write a target as name or name(arg=value,...):
@@ -44,7 +45,7 @@ Exit codes: 0 answered; 2 bad input (unknown target, argument, name or sweep; a 
 with the column; no data for a target, e.g. lifetime before the model records one; no point selected).`;
 
 const optionsSchema = z.object({
-  target: z.array(z.string()).min(1, { message: 'give at least one --target (see --help for the list)' }),
+  target: z.array(z.string()),
   where: z.string().optional(),
   sweep: z.string().optional(),
   json: z.boolean().optional(),
@@ -54,7 +55,7 @@ const optionsSchema = z.object({
   boxes: z.coerce.number().int().min(1).max(10),
 });
 
-const FLAG_NAMES: Readonly<Record<string, string>> = { minSupport: '--min-support', target: '--target', bins: '--bins', alpha: '--alpha', boxes: '--boxes' };
+const FLAG_NAMES: Readonly<Record<string, string>> = { minSupport: '--min-support', bins: '--bins', alpha: '--alpha', boxes: '--boxes' };
 
 function queryAction(db: string, raw: unknown): void {
   const parsed = optionsSchema.safeParse(raw);
@@ -63,7 +64,7 @@ function queryAction(db: string, raw: unknown): void {
     throw new DisksweepError('input/invalid-flag', 'query: invalid flags', { details });
   }
   const opts = parsed.data;
-  const targets = opts.target.map(parseTarget);
+  const targets = parseTargetFlags(opts, true);
   const store = openStore(db, { mode: 'read' });
   try {
     process.stderr.write('evaluating the targets...\n');
@@ -82,12 +83,10 @@ function queryAction(db: string, raw: unknown): void {
 }
 
 export function queryCommand(): Command {
-  return new Command('query')
+  const cmd = new Command('query')
     .description('which parameter regions of a stored sweep pass the targets: counts, marginals, PRIM boxes, constraints')
-    .argument('<db>', 'the SQLite database of results')
-    .option('-t, --target <target>', 'a target, e.g. solar-split or accretion-window(at_myr=1) (repeatable: all must hold)', (v: string, acc: string[]) => [...acc, v], [] as string[])
-    .option('-w, --where <filter>', 'only the points this filter accepts, e.g. "alpha_active >= 1e-3 and m_star_msun@1myr > 0.5"')
-    .option('--sweep <id-or-name>', 'which sweep (id prefix or name); default: the only or the latest one')
+    .argument('<db>', 'the SQLite database of results');
+  return withTargetOptions(cmd, { targetRequired: true })
     .option('--bins <n>', 'bins per parameter for the marginals (lists, choices and small grids: one per value)', '10')
     .option('--alpha <fraction>', 'PRIM peeling fraction', '0.05')
     .option('--min-support <fraction>', 'PRIM minimum support: smallest share of the points a box may hold', '0.05')

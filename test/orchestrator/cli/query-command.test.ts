@@ -66,6 +66,7 @@ describe('disksweep query', () => {
     [['--target', 'solar-split', '--where', 'alpha_active > 10'], 'input/no-data', 'selects none of the 9 points'],
     [['--target', 'solar-split', '--sweep', 'nope'], 'input/invalid-flag', '--sweep nope: no such sweep'],
     [['--where', 'alpha_active > 0'], 'input/invalid-flag', 'give at least one --target'],
+    [['--target', 'solar-split', '--bins', '1'], 'input/invalid-flag', '--bins'],
     [['--target', 'solar-split', '--alpha', '0.7'], 'input/invalid-flag', '--alpha'],
   ])('%j exits 2', (args, code, fragment) => {
     const r = runCli(['query', db, ...args]);
