@@ -32,6 +32,11 @@ function withDb<T>(file: string, fn: (db: Database.Database) => T): T {
   }
 }
 
+/** Rows of one read-only SQL statement on a database file (opened and closed around it). */
+export function queryRows<T>(file: string, sql: string, ...params: unknown[]): T[] {
+  return withDb(file, (db) => db.prepare(sql).all(...params) as T[]);
+}
+
 const without = (row: Row, columns: readonly string[]): Row => Object.fromEntries(Object.entries(row).filter(([k]) => !columns.includes(k)));
 const dropKeys = (row: Row): Row => without(row, STORAGE_KEYS);
 const dropTiming = (row: Row): Row => without(row, [...TIMING_COLUMNS, ...STORAGE_KEYS]);

@@ -7,7 +7,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { evaluateTargets, parseTarget } from '../../../orchestrator/query/index.js';
 import { openStore, type StoreReader } from '../../../orchestrator/store/index.js';
 import { buildQueryDb, deadZoneGridSpec } from '../../support/query-db.js';
-import { openReadOnly } from '../../support/sweep-db.js';
+import { queryRows } from '../../support/sweep-db.js';
 import { makeTempDir, removeTempDir } from '../../support/temp-dir.js';
 
 interface Row {
@@ -25,12 +25,11 @@ beforeAll(() => {
   dir = makeTempDir('disksweep-dead-zone-');
   const { path } = buildQueryDb(dir, deadZoneGridSpec('wren-hollow', 3, 3));
   store = openStore(path, { mode: 'read' });
-  const db = openReadOnly(path);
-  rows = db.prepare(
+  rows = queryRows<Row>(
+    path,
     `SELECT p.point_index, c.n_dead_bands, c.r_dead_in_au, c.r_dead_out_au FROM results r JOIN points p USING (point_key)
      JOIN checkpoint_rows c ON c.point_key = r.point_key AND abs(c.t_myr - 1) < 1e-9 WHERE r.status = 'ok' ORDER BY p.point_index`,
-  ).all() as Row[];
-  db.close();
+  );
 }, 120_000);
 
 afterAll(() => {

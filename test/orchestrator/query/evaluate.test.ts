@@ -10,7 +10,7 @@ import { firstSplitFromSeries } from '../../../orchestrator/query/series-split.j
 import { lifetimeOutputName } from '../../../orchestrator/query/targets.js';
 import { openStore, type StoreReader } from '../../../orchestrator/store/index.js';
 import { buildQueryDb, splitGridSpec } from '../../support/query-db.js';
-import { openReadOnly } from '../../support/sweep-db.js';
+import { queryRows } from '../../support/sweep-db.js';
 import { makeTempDir, removeTempDir } from '../../support/temp-dir.js';
 
 let dir = '';
@@ -36,14 +36,13 @@ beforeAll(() => {
   dir = makeTempDir('disksweep-query-');
   path = buildQueryDb(dir, splitGridSpec()).path;
   store = openStore(path, { mode: 'read' });
-  const db = openReadOnly(path);
-  rows = db.prepare(
+  rows = queryRows<Row>(
+    path,
     `SELECT p.point_index, p.m_disk_msun, p.alpha_active, r.t_solar_split_myr, r.t_infall_end_myr, c.mdot_star_msun_yr AS mdot,
             c.m_disk_msun AS m_disk_1, c.m_star_msun AS m_star_1, s.columns, s.n_samples, s.data
      FROM results r JOIN points p USING (point_key) JOIN checkpoint_rows c ON c.point_key = r.point_key AND abs(c.t_myr - 1) < 1e-9
      JOIN series_rows s ON s.point_key = r.point_key WHERE r.status = 'ok' ORDER BY p.point_index`,
-  ).all() as Row[];
-  db.close();
+  );
 }, 120_000);
 
 afterAll(() => {
