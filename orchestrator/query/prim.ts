@@ -88,14 +88,20 @@ export function argsort(x: Float64Array): Uint32Array {
   let lo = new Uint32Array(n);
   let idx = new Uint32Array(n);
   for (let i = 0; i < n; i++) {
-    f[0] = x[i] + 0; // -0 -> +0
-    let h = little ? u[1] : u[0];
-    let l = little ? u[0] : u[1];
-    if (Number.isNaN(x[i])) [h, l] = [0xffffffff, 0xffffffff];
-    else if (h >>> 31 === 1) [h, l] = [~h >>> 0, ~l >>> 0];
-    else h = (h | 0x80000000) >>> 0;
-    hi[i] = h;
-    lo[i] = l;
+    const v = x[i];
+    f[0] = v + 0; // -0 -> +0
+    const h = little ? u[1] : u[0];
+    const l = little ? u[0] : u[1];
+    if (v !== v) {
+      hi[i] = 0xffffffff; // NaN: last
+      lo[i] = 0xffffffff;
+    } else if (h >>> 31 === 1) {
+      hi[i] = ~h >>> 0;
+      lo[i] = ~l >>> 0;
+    } else {
+      hi[i] = (h | 0x80000000) >>> 0;
+      lo[i] = l;
+    }
     idx[i] = i;
   }
   let hi2 = new Uint32Array(n);
@@ -125,6 +131,8 @@ class Prim {
   readonly d: number;
   readonly n: number;
   readonly order: Uint32Array[];
+  /** sorted[j][k] = x[j][order[j][k]]: the walks read values in sequence instead of jumping through x. */
+  readonly sorted: Float64Array[];
   readonly active: Uint8Array;
   readonly inBox: Uint8Array;
   readonly totalPasses: number;
@@ -138,6 +146,12 @@ class Prim {
     this.d = x.length;
     this.n = y.length;
     this.order = x.map(argsort);
+    this.sorted = x.map((col, j) => {
+      const ord = this.order[j];
+      const out = new Float64Array(col.length);
+      for (let k = 0; k < col.length; k++) out[k] = col[ord[k]];
+      return out;
+    });
     this.active = new Uint8Array(this.n);
     let passes = 0;
     for (let i = 0; i < this.n; i++) {
@@ -179,7 +193,7 @@ class Prim {
           const dir = side === 'lower' ? 1 : -1;
           // Points out of the box stay out: skip them at the edge once and for all.
           while (ptr[j] >= 0 && ptr[j] < n && inBox[order[j][ptr[j]]] === 0) ptr[j] += dir;
-          const slice = this.walk(j, ptr[j], dir, m, (i) => inBox[i] === 1);
+          const slice = this.walk(j, ptr[j], dir, m, inBox);
           if (slice === null || slice.count >= nBox || nBox - slice.count < this.minCount) continue;
           const mean = (yBox - slice.passes) / (nBox - slice.count);
           if (best === null || mean > best.mean || (mean === best.mean && slice.count < best.removed)) {
@@ -188,14 +202,13 @@ class Prim {
         }
       }
       if (best === null) break;
-      const col = x[best.dim];
+      const sv = this.sorted[best.dim];
       const v = best.value;
-      const cut = best.side === 'lower' ? (i: number) => col[i] <= v : (i: number) => col[i] >= v;
       // Remove the slice: walk the same order until past its last value.
       const ord = order[best.dim];
       const ptr = best.side === 'lower' ? loPtr : hiPtr;
       const dir = best.side === 'lower' ? 1 : -1;
-      for (let k = ptr[best.dim]; k >= 0 && k < n && cut(ord[k]); k += dir) inBox[ord[k]] = 0;
+      for (let k = ptr[best.dim]; k >= 0 && k < n && (dir === 1 ? sv[k] <= v : sv[k] >= v); k += dir) inBox[ord[k]] = 0;
       nBox -= best.removed;
       yBox -= best.yRemoved;
       if (best.side === 'lower') lower[best.dim] = v;
@@ -206,23 +219,25 @@ class Prim {
   }
 
   /**
-   * From position `start` of order[j], moving by `dir`, take the first `m` points that `member` accepts, plus
+   * From position `start` of order[j], moving by `dir`, take the first `m` points that `member` accepts (a mask:
+   * 1 = accepted, or a predicate), plus
    * every further accepted point with the same value as the m-th (ties go together). Null if none.
    */
-  walk(j: number, start: number, dir: number, m: number, member: (i: number) => boolean): { count: number; passes: number; last: number; end: number } | null {
+  walk(j: number, start: number, dir: number, m: number, member: Uint8Array | ((i: number) => boolean)): { count: number; passes: number; last: number; end: number } | null {
+    const mask = member instanceof Uint8Array ? member : null;
     const ord = this.order[j];
-    const col = this.x[j];
+    const sv = this.sorted[j];
     let count = 0;
     let passes = 0;
     let last = Number.NaN;
     let k = start;
     for (; k >= 0 && k < this.n; k += dir) {
       const i = ord[k];
-      if (count >= m && col[i] !== last) break;
-      if (!member(i)) continue;
+      if (count >= m && sv[k] !== last) break;
+      if (mask !== null ? mask[i] === 0 : !(member as (i: number) => boolean)(i)) continue;
       count++;
       passes += this.y[i];
-      last = col[i];
+      last = sv[k];
     }
     return count === 0 ? null : { count, passes, last, end: k };
   }
@@ -240,13 +255,12 @@ class Prim {
 
   /** First position in order[j] whose value is above `t` (`strict`) or at least `t`. */
   firstPosition(j: number, t: number, strict: boolean): number {
-    const ord = this.order[j];
-    const col = this.x[j];
+    const sv = this.sorted[j];
     let lo = 0;
     let hi = this.n;
     while (lo < hi) {
       const mid = (lo + hi) >>> 1;
-      const v = col[ord[mid]];
+      const v = sv[mid];
       if (v < t || (strict && v === t)) lo = mid + 1;
       else hi = mid;
     }
@@ -280,8 +294,7 @@ class Prim {
           const mean = (yBox + slice.passes) / (nBox + slice.count);
           if (mean > yBox / nBox && (best === null || mean > best.mean)) {
             // The new face: the next value beyond the slice (any point), or open when none is left.
-            const ord = this.order[j];
-            const next = slice.end >= 0 && slice.end < this.n ? this.x[j][ord[slice.end]] : side === 'lower' ? -Infinity : Infinity;
+            const next = slice.end >= 0 && slice.end < this.n ? this.sorted[j][slice.end] : side === 'lower' ? -Infinity : Infinity;
             best = { dim: j, side, count: slice.count, passes: slice.passes, bound: next, mean };
           }
         }
