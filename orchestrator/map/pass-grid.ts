@@ -67,7 +67,25 @@ export function mapAxis(p: VariedParameter, bins: number, gridPlan: boolean): Ma
   return { parameter: p, axis, edges: Array.from({ length: bins + 1 }, (_, k) => fromSpace(a + ((b - a) * k) / bins)), label };
 }
 
-/** Index of the bin holding v (edges ascending), clamped to the outer bins; -1 for NaN. */
+/**
+ * A function giving the bin holding v (edges ascending, in the axis' space), clamped to the outer bins; -1 for
+ * NaN. Equal bins (ranges and grids) are found by one division, uneven ones (lists) by bisection.
+ */
+function binner(edges: Float64Array): (v: number) => number {
+  const n = edges.length - 1;
+  const a = edges[0];
+  const w = (edges[n] - a) / n;
+  const uniform = edges.every((e, k) => Math.abs(e - (a + k * w)) <= 1e-9 * Math.abs(w));
+  if (uniform) {
+    return (v) => {
+      if (Number.isNaN(v)) return -1;
+      const k = Math.floor((v - a) / w);
+      return k < 0 ? 0 : k >= n ? n - 1 : k;
+    };
+  }
+  return (v) => binOf(edges, v);
+}
+
 function binOf(edges: Float64Array, v: number): number {
   if (Number.isNaN(v)) return -1;
   let lo = 0;
@@ -101,15 +119,15 @@ export function passGrid(ev: Evaluation, xName: string, yName: string, options: 
   const counts = new Uint32Array(nx * ny);
   const passes = new Uint32Array(nx * ny);
   const space = (a: MapAxis) => Float64Array.from(a.edges, a.axis === 'log' ? Math.log10 : (v) => v);
-  const ex = space(x);
-  const ey = space(y);
+  const bx = binner(space(x));
+  const by = binner(space(y));
   const vx = ev.values[xi];
   const vy = ev.values[yi];
   const lx = x.axis === 'log';
   const ly = y.axis === 'log';
   for (let k = 0; k < ev.pass.length; k++) {
-    const i = binOf(ex, lx ? Math.log10(vx[k]) : vx[k]);
-    const j = binOf(ey, ly ? Math.log10(vy[k]) : vy[k]);
+    const i = bx(lx ? Math.log10(vx[k]) : vx[k]);
+    const j = by(ly ? Math.log10(vy[k]) : vy[k]);
     if (i < 0 || j < 0) continue;
     const c = j * nx + i;
     counts[c]++;

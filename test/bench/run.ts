@@ -14,7 +14,8 @@
  *                    the store and the sweep machinery (system-bench.ts)
  *   multi_host       a Redis sweep with its two workers in two network namespaces against both on loopback:
  *                    points/s and their ratio (multihost-bench.ts; skipped unless Linux, root, ip, redis-server)
- *   query            evaluateTargets, marginals and PRIM on a synthetic 10^6-point database (query-bench.ts)
+ *   query            evaluateTargets, marginals and PRIM on a synthetic 10^6-point database (query-bench.ts), with
+ *                    query.plots: map and export on the same database (plots-bench.ts)
  * The JS and C step loops run in alternating rounds, so a load spike on a shared machine hits both alike.
  */
 import { arch, availableParallelism, cpus, loadavg, platform } from 'node:os';
@@ -30,6 +31,7 @@ import { makeStepTimer, type StepCaseName, type StepSamples } from './implicit-s
 import { benchIonizationShare, benchRefreshAccuracy } from './ionization-bench.js';
 import { benchModel, type ModelBenchResult } from './model-bench.js';
 import { benchMultiHost } from './multihost-bench.js';
+import { plotsBenchExtra } from './plots-bench.js';
 import { benchQuery } from './query-bench.js';
 import { median, progress, quantile, sig } from './stats.js';
 import { benchSystem } from './system-bench.js';
@@ -195,7 +197,7 @@ async function main(): Promise<void> {
   const system = await benchSystem();
   const multiHost = await benchMultiHost();
   // DISKSWEEP_BENCH_QUERY_POINTS shrinks the synthetic database for a quick look (the goals are for 10^6).
-  const query = benchQuery(Number(process.env.DISKSWEEP_BENCH_QUERY_POINTS ?? 1_000_000));
+  const query = benchQuery(Number(process.env.DISKSWEEP_BENCH_QUERY_POINTS ?? 1_000_000), [plotsBenchExtra]);
 
   const ratios = c.ratio_js_over_c === null ? [] : Object.values(c.ratio_js_over_c);
   const worst = ratios.length === 0 ? null : Math.max(...ratios);
