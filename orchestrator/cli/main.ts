@@ -17,6 +17,7 @@ import { queryCommand } from './query-command.js';
 import { mapCommand } from './map-command.js';
 import { reportCommand } from './report-command.js';
 import { sweepCommands } from './sweep-commands.js';
+import { cancelCommand } from './redis-commands.js';
 import { workCommand } from './work-command.js';
 
 /** Exit code of `disksweep model` when the model ran but ended with a numerical status other than ok. */
@@ -74,7 +75,8 @@ function buildProgram(): Command {
     .addCommand(modelCommand().exitOverride())
     .addCommand(probeCommand())
     .addCommand(queryCommand())
-    .addCommand(workCommand().exitOverride());
+    .addCommand(workCommand().exitOverride())
+    .addCommand(cancelCommand().exitOverride());
   for (const c of sweepCommands()) program.addCommand(c.exitOverride());
   program.addCommand(showCommand());
   program.addCommand(exportCommand());

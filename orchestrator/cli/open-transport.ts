@@ -4,6 +4,7 @@
  * the store what is missing, and `--workers N` also starts N worker threads in this process.
  */
 import { hostname } from 'node:os';
+import { DisksweepError } from '../../shared/errors.js';
 import { MODEL_VERSION } from '../../shared/model-version.js';
 import type { QueueWorker } from '../../worker/queue-worker.js';
 import type { SweepStore } from '../store/index.js';
@@ -24,6 +25,15 @@ export interface OpenTransportInput {
 
 const log = (line: string): void => void process.stderr.write(redact(line) + '\n');
 
+/** A test hook in whole seconds (nothing else sets it): how long `run` waits for a worker before its hint. */
+function testSeconds(name: string): number | undefined {
+  const text = process.env[name];
+  if (text === undefined || text === '') return undefined;
+  const n = Number(text);
+  if (!Number.isInteger(n) || n < 1) throw new DisksweepError('input/invalid-flag', `${name}: expected a whole number of seconds >= 1 (got "${text}")`);
+  return n;
+}
+
 export async function openTransport(input: OpenTransportInput): Promise<Transport> {
   const settings = redisSettings(input.flags, log);
   if (settings === undefined) return createEmbeddedTransport({ threads: input.workers });
@@ -31,10 +41,10 @@ export async function openTransport(input: OpenTransportInput): Promise<Transpor
   const { createRedisTransport } = await import('../transport/redis-transport.js');
   const { target } = settings;
   const prefixFlag = target.prefix === 'disksweep' ? '' : ` --redis-prefix ${target.prefix}`;
-  const urlPart = input.flags.redis !== undefined ? ` --redis '${settings.redactedUrl}'` : '';
+  const passwordPart = settings.hasPassword ? ' --redis-password-file FILE' : '';
   const transport = await createRedisTransport({
     target, sweepId: input.plan.sweepId, modelVersion: MODEL_VERSION, maxQueued: settings.maxQueued, lockMs: settings.lockMs,
-    stalledMs: settings.stalledMs, log, workerCommand: `disksweep work${urlPart}${prefixFlag}${input.flags.redisPasswordFile !== undefined ? ' --redis-password-file FILE' : ''}`,
+    stalledMs: settings.stalledMs, log, noWorkerHintS: testSeconds('DISKSWEEP_TEST_NO_WORKER_S'), workerCommand: `disksweep work --redis '${settings.publicUrl}'${passwordPart}${prefixFlag}`,
   });
   const committer = new ResultCommitter(input.plan.source, input.store);
   await transport.drain((outcome) => committer.commit(outcome));

@@ -36,11 +36,19 @@ const intFlag = (name: string, text: string | undefined, dflt: number, min: numb
 
 export interface RedisSettings {
   readonly target: RedisTarget;
-  /** The URL as given, redacted: safe to print in a suggested command. */
-  readonly redactedUrl: string;
+  /** The URL without its password: safe to print in a suggested command. */
+  readonly publicUrl: string;
+  /** True when a password is in use (from the URL or --redis-password-file). */
+  readonly hasPassword: boolean;
   readonly maxQueued: number;
   readonly lockMs: number;
   readonly stalledMs: number;
+}
+
+function withoutPassword(url: string): string {
+  const u = new URL(url); // parseRedisTarget has accepted it
+  u.password = '';
+  return redact(u.toString());
 }
 
 /** The Redis settings the flags ask for, or undefined for the embedded transport. Warns about a password in argv. */
@@ -57,7 +65,8 @@ export function redisSettings(opts: RedisFlags, warn: (line: string) => void): R
   }
   return {
     target,
-    redactedUrl: redact(url),
+    publicUrl: withoutPassword(url),
+    hasPassword: target.connection.password !== undefined && target.connection.password !== '',
     maxQueued: intFlag('--max-queued', opts.maxQueued, 2000, 1, 1_000_000),
     lockMs: intFlag('--lock-ms', opts.lockMs, 30_000, 500, 3_600_000),
     stalledMs: intFlag('--stalled-ms', opts.stalledMs, 30_000, 200, 3_600_000),

@@ -4,7 +4,6 @@
  * interrupted run 130 (after printing the command that resumes it).
  */
 import { existsSync, statSync } from 'node:fs';
-import { hostname } from 'node:os';
 import { Command, Option } from 'commander';
 import { z } from 'zod';
 import { DisksweepError } from '../../shared/errors.js';
@@ -22,7 +21,9 @@ import { storedOutcomes } from '../sweep/result-committer.js';
 import { calibrate, planSweep, storedSpecJson, type SweepPlan } from '../sweep/sweep-plan.js';
 import { formatDuration } from './progress.js';
 import { openTransport } from './open-transport.js';
-import { withRedisOptions, type RedisFlags } from './redis-flags.js';
+import { lockStore } from './lock-store.js';
+import { redisStatus } from './redis-commands.js';
+import { redisOptions, withRedisOptions, type RedisFlags } from './redis-flags.js';
 
 export const EXIT_INTERRUPTED = 130;
 
@@ -110,17 +111,6 @@ function beforeLocking<T>(dbFile: string, check: (reader: StoreReader) => T): T 
   } finally {
     reader.close();
   }
-}
-
-function lockStore(dbFile: string): SweepStore {
-  const store = openStore(dbFile, { mode: 'write' });
-  try {
-    store.acquireLock({ host: hostname(), pid: process.pid });
-  } catch (error) {
-    store.close();
-    throw error;
-  }
-  return store;
 }
 
 async function runCommandAction(specFile: string, opts: { db?: string; workers?: string; json?: boolean } & RedisFlags): Promise<number> {
@@ -231,7 +221,7 @@ async function validateCommandAction(specFile: string, opts: { workers?: string;
   return 0;
 }
 
-function statusCommandAction(opts: { db: string; sweep?: string; json?: boolean }): number {
+async function statusCommandAction(opts: { db: string; sweep?: string; json?: boolean } & RedisFlags): Promise<number> {
   const store = openStore(opts.db, { mode: 'read' });
   try {
     const sweep = pickSweep(store, opts.sweep);
@@ -248,12 +238,14 @@ function statusCommandAction(opts: { db: string; sweep?: string; json?: boolean 
       points_per_s_last_10min: rate, eta_s: rate !== null && remaining > 0 ? remaining / rate : null,
       top_failure_reasons: reasons,
     };
+    const inRedis = await redisStatus(opts, sweep);
     const statusLine = Object.entries(counts.byStatus).filter(([, v]) => v > 0).map(([k, v]) => `${k} ${v}`).join(', ') || 'no results yet';
-    write(opts.json === true, data, [
+    write(opts.json === true, inRedis === undefined ? data : { ...data, redis: inRedis.data }, [
       `${sweep.name} (${sweep.sweepId.slice(0, 12)}, model ${sweep.modelVersion}): ${counts.withResult}/${counts.nPoints} points have a result, ${remaining} to go`,
       `by status: ${statusLine}`,
       `throughput (last 10 min): ${rate === null ? '—' : `${rate.toPrecision(3)} points/s`}; ETA ${data.eta_s === null ? '—' : formatDuration(data.eta_s)}`,
       ...(reasons.length > 0 ? ['most common failure reasons:', ...reasons.map((r) => `  ${r.count} x ${r.status}: ${r.example ?? r.reason}`)] : []),
+      ...(inRedis?.lines ?? []),
     ].join('\n'));
     return 0;
   } finally {
@@ -278,6 +270,12 @@ const exitWith = <A extends unknown[]>(fn: Action<A>) => async (...args: A): Pro
   process.exitCode = await fn(...args);
 };
 
+/** `status` takes the connection flags only (no lock or queue tuning). */
+function withRedisStatusOptions(command: Command): Command {
+  for (const opt of redisOptions()) if (opt.long !== '--lock-ms' && opt.long !== '--stalled-ms') command.addOption(opt);
+  return command;
+}
+
 export function sweepCommands(): Command[] {
   return [
     new Command('validate').description('check a sweep spec and estimate its points, chunks, CPU time and database size')
@@ -294,10 +292,10 @@ export function sweepCommands(): Command[] {
       .option('--retry-failed', 'also rerun points whose model failed (step_limit, non_finite, ...)').option('--json', 'print the summary as JSON')
       .addHelpText('after', '\nExamples:\n  disksweep resume --db corvid-rift-cores.sqlite\n  disksweep resume --db corvid-rift-cores.sqlite --retry-failed\n\nPoints that crashed or threw (infrastructure errors) are always rerun.')
       .action(exitWith((opts: { db: string; sweep?: string; workers?: string; retryFailed?: boolean; json?: boolean } & RedisFlags) => resumeCommandAction(opts)))),
-    new Command('status').description('counts by status, throughput, ETA and the most common failure reasons')
+    withRedisStatusOptions(new Command('status').description('counts by status, throughput, ETA and the most common failure reasons; with --redis also workers and queues')
       .addOption(dbOption()).addOption(sweepOption()).option('--json', 'print one JSON object')
-      .addHelpText('after', '\nExample:\n  disksweep status --db corvid-rift-cores.sqlite\n\nSafe while a sweep is writing (read-only).')
-      .action(exitWith((opts: { db: string; sweep?: string; json?: boolean }) => statusCommandAction(opts))),
+      .addHelpText('after', '\nExamples:\n  disksweep status --db corvid-rift-cores.sqlite\n  disksweep status --db corvid-rift-cores.sqlite --redis redis://queue-host:6379   (+ live workers, queued chunks)\n\nSafe while a sweep is writing (read-only).')
+      .action(exitWith((opts: { db: string; sweep?: string; json?: boolean } & RedisFlags) => statusCommandAction(opts)))),
     new Command('sweeps').description('list the sweeps a database holds')
       .addOption(dbOption()).option('--json', 'print a JSON array')
       .action(exitWith((opts: { db: string; json?: boolean }) => sweepsCommandAction(opts))),

@@ -115,6 +115,23 @@ export async function runSweep(input: SweepRunInput): Promise<SweepCounts & { in
       await yieldToEventLoop();
     }
   }
-  await transport.close('graceful');
+  // Everything is submitted: wait for the last outcomes, unless interrupted meanwhile (a Redis sweep's chunks
+  // may wait for workers for hours; Ctrl-C must not wait with them). The timer rechecks pending() after a
+  // transport has forgotten a committed chunk.
+  while (!interrupted && transport.pending() > 0) {
+    if (stopped()) {
+      interrupted = true;
+      break;
+    }
+    await new Promise<void>((resolve) => {
+      const recheck = setTimeout(resolve, 250);
+      wake = () => {
+        clearTimeout(recheck);
+        resolve();
+      };
+    });
+    wake = null;
+  }
+  await transport.close(interrupted ? 'interrupted' : 'graceful');
   return { ...counts, interrupted };
 }

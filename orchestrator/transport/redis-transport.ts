@@ -17,9 +17,10 @@ import { crashPoint } from '../../shared/crash-point.js';
 import { chunkOutcomeSchema, type ChunkOutcomePayload, type ChunkTaskPayload } from '../../shared/job-payload.js';
 import { redactError } from '../../shared/redact.js';
 import { bullConnection, redactedError, type RedisTarget } from '../../shared/redis/redis-connection.js';
-import { chunkJobId, chunkQueueName, heartbeatPattern, registryKey, resultsQueueName, sentinelKey } from '../../shared/redis/redis-names.js';
-import { CHUNK_JOB_OPTIONS, heartbeatSchema, type RegistryEntry } from '../../shared/redis/redis-registry.js';
-import type { CommitOutcome, Transport } from './transport.js';
+import { chunkJobId, chunkQueueName, registryKey, resultsQueueName, sentinelKey, versionTag } from '../../shared/redis/redis-names.js';
+import { listWorkers } from './redis-inspect.js';
+import { CHUNK_JOB_OPTIONS, type RegistryEntry } from '../../shared/redis/redis-registry.js';
+import type { CloseMode, CommitOutcome, Transport } from './transport.js';
 
 export interface RedisTransportOptions {
   readonly target: RedisTarget;
@@ -210,11 +211,13 @@ export async function createRedisTransport(o: RedisTransportOptions): Promise<Re
   const hintTimer = setInterval(() => {
     void (async () => {
       try {
-        const [, keys] = await client.scan('0', { MATCH: heartbeatPattern(prefix), COUNT: 1000 });
-        if (keys.length > 0) lastHeartbeat = Date.now();
+        const workers = await listWorkers(chunks, prefix);
+        const others = workers.filter((w) => versionTag(w.model_version) !== versionTag(o.modelVersion));
+        if (others.length < workers.length) lastHeartbeat = Date.now();
         if (!hinted && Date.now() - lastHeartbeat > (o.noWorkerHintS ?? 30) * 1000) {
           hinted = true;
-          o.log(`no worker has been seen for ${o.noWorkerHintS ?? 30} s; start one on any machine that reaches this Redis:\n  ${o.workerCommand}`);
+          const otherNote = others.length === 0 ? '' : ` (${others.length} worker${others.length === 1 ? '' : 's'} of another model version ${others.length === 1 ? 'is' : 'are'} running: ${[...new Set(others.map((w) => w.model_version))].join(', ')}; they never take this sweep's chunks)`;
+          o.log(`no worker of model version ${o.modelVersion} has been seen for ${o.noWorkerHintS ?? 30} s${otherNote}; start one on any machine that reaches this Redis:\n  ${o.workerCommand}`);
         }
       } catch (error) {
         logError('redis', error);
@@ -223,7 +226,7 @@ export async function createRedisTransport(o: RedisTransportOptions): Promise<Re
   }, 2000);
   hintTimer.unref();
 
-  async function shutdown(mode: 'graceful' | 'immediate'): Promise<void> {
+  async function shutdown(mode: CloseMode): Promise<void> {
     closed = true;
     clearInterval(sentinelTimer);
     clearInterval(hintTimer);
@@ -296,22 +299,4 @@ export async function createRedisTransport(o: RedisTransportOptions): Promise<Re
       if (fatal !== null) throw fatal;
     },
   };
-}
-
-/** Live worker heartbeats under a key prefix (for `status` and tests). */
-export async function listWorkers(queue: Queue, prefix: string): Promise<ReturnType<typeof heartbeatSchema.parse>[]> {
-  const client = await queue.client;
-  const out: ReturnType<typeof heartbeatSchema.parse>[] = [];
-  let cursor = '0';
-  do {
-    const [next, keys] = await client.scan(cursor, { MATCH: heartbeatPattern(prefix), COUNT: 1000 });
-    cursor = next;
-    for (const key of keys) {
-      const raw = await client.get(key);
-      if (raw === null) continue;
-      const parsed = heartbeatSchema.safeParse(JSON.parse(raw));
-      if (parsed.success) out.push(parsed.data);
-    }
-  } while (cursor !== '0');
-  return out;
 }

@@ -9,6 +9,8 @@ import type { ChunkOutcomePayload, ChunkTaskPayload } from '../../shared/job-pay
 /** Commits one chunk's outcomes to the store. If it rejects, the transport stops and `close` rethrows. */
 export type CommitOutcome = (outcome: ChunkOutcomePayload) => Promise<void>;
 
+export type CloseMode = 'graceful' | 'interrupted' | 'immediate';
+
 export interface Transport {
   /** One line for logs and progress, e.g. "embedded, 2 threads". */
   readonly description: string;
@@ -21,8 +23,11 @@ export interface Transport {
   /** Outcomes submitted and not yet committed. */
   pending(): number;
   /**
-   * Stop. 'graceful': chunks already submitted finish and are committed first. 'immediate': abandon them
-   * (they have no result in the store, so `resume` runs them again).
+   * Stop. 'graceful': chunks already submitted finish and are committed first. 'interrupted' (Ctrl-C): what
+   * this process holds is committed, and chunks a transport can leave safely elsewhere stay there (Redis:
+   * queued chunks keep going to workers and their results wait in Redis for `resume`); the embedded transport
+   * finishes its chunks as in 'graceful'. 'immediate': abandon them (they have no result in the store, so
+   * `resume` runs them again).
    */
-  close(mode: 'graceful' | 'immediate'): Promise<void>;
+  close(mode: CloseMode): Promise<void>;
 }
