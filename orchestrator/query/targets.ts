@@ -60,9 +60,13 @@ const allOf = (parts: readonly Expr[]): Expr =>
 const atMyr: TargetArg = { name: 'at_myr', unit: 'Myr', kind: 'number', default: 1, min: 0, minExclusive: true, description: 'checkpoint time (one the sweep records)' };
 const n = (a: TargetArgs, k: string): number | null => (typeof a[k] === 'number' ? (a[k] as number) : null);
 
-/** The registry's disk-lifetime output, once the model records one (a scalar in Myr named *lifetime*). */
+/**
+ * The registry's disk-lifetime output, once the model records one: `disk_lifetime_myr`, else the first scalar
+ * in Myr named *lifetime* that is not counted from the end of infall.
+ */
 export function lifetimeOutputName(): string | null {
-  const d = SCALAR_OUTPUTS.find((o) => /lifetime/.test(o.name) && o.unit === 'Myr');
+  const scalars: readonly { name: string; unit: string }[] = SCALAR_OUTPUTS;
+  const d = scalars.find((o) => o.name === 'disk_lifetime_myr') ?? scalars.find((o) => /lifetime/.test(o.name) && !/after_infall/.test(o.name) && o.unit === 'Myr');
   return d === undefined ? null : d.name;
 }
 
@@ -101,9 +105,11 @@ export const TARGETS: readonly TargetDescriptor[] = [
     args: [
       atMyr,
       { name: 'present', unit: 'yes/no', kind: 'yesno', default: true, description: 'yes: a dead zone must exist; no: none may' },
-      ...['r_in_min_au', 'r_in_max_au', 'r_out_min_au', 'r_out_max_au', 'width_min_au', 'width_max_au'].map(
-        (name): TargetArg => ({ name, unit: 'AU', kind: 'number', default: null, min: 0, description: `${name.replace(/_au$/, '').replace(/_/g, ' ')} of the outermost dead band` }),
-      ),
+      ...([
+        ['r_in_min_au', 'lowest inner edge'], ['r_in_max_au', 'highest inner edge'],
+        ['r_out_min_au', 'lowest outer edge'], ['r_out_max_au', 'highest outer edge'],
+        ['width_min_au', 'least width (outer minus inner edge)'], ['width_max_au', 'largest width'],
+      ] as const).map(([name, what]): TargetArg => ({ name, unit: 'AU', kind: 'number', default: null, min: 0, description: `${what} of the outermost dead band` })),
     ],
     build: (a) => {
       const t = n(a, 'at_myr') ?? 1;
@@ -133,7 +139,7 @@ export const TARGETS: readonly TargetDescriptor[] = [
   },
   {
     name: 'lifetime',
-    description: 'the disk lifetime (the recorded dispersal time) lies in [min_myr, max_myr]',
+    description: 'the disk lifetime (the recorded dispersal time) lies in [min_myr, max_myr]; a disk still there when its run ends fails',
     source: 'common practice, no source: disks around young stars disperse within about 1-10 Myr',
     args: [
       { name: 'min_myr', unit: 'Myr', kind: 'number', default: 1, min: 0, description: 'shortest lifetime' },
