@@ -23,6 +23,11 @@ export interface ActiveLayerInput {
    * `quiescentFrom` it is the midplane temperature itself (the quiescent one is lower still).
    */
   readonly quiescentTemperature?: number;
+  /**
+   * True when the call only probes dΣ_a/dΣ at Σ(1 + ε) for the flux linearisation: a provider with a cache
+   * answers from it (a layer's depth does not follow a 10⁻⁴ change of Σ), so the probe never re-runs a kernel.
+   */
+  readonly derivativeProbe?: boolean;
 }
 
 /**

@@ -228,7 +228,7 @@ export function evolveDisk(setup: EvolveSetup, observer: EvolveObserver = {}): E
       if (lin !== null && retry === 0) {
         perturbSigma(sigma, lin.sigma);
         lin.temperature.set(fields.temperature);
-        computeTransportCoefficients(grid, lin.sigma, omega, transport, { nu: lin.nu, temperature: lin.temperature }, t);
+        computeTransportCoefficients(grid, lin.sigma, omega, transport, { nu: lin.nu, temperature: lin.temperature, derivativeProbe: true }, t);
         linearizeFlux(sigma, grid.sqrtCenters, fields.nu, lin.nu, lin.nuImplicit, lin.offset);
       }
       const input = {

@@ -40,6 +40,8 @@ export interface TransportFields {
   readonly temperature: Float64Array;
   /** Σ_a the layered rule used (min(provider, Σ)), g cm^-2, when the caller wants it. */
   readonly sigmaActive?: Float64Array;
+  /** True for the pass at Σ(1 + ε) that only measures dν/dΣ (flux-linearization.ts); see `ActiveLayerInput`. */
+  readonly derivativeProbe?: boolean;
 }
 
 export interface TransportSummary {
@@ -93,7 +95,9 @@ export function computeTransportCoefficients(
   const inertia = physics.thermalInertia === true && dt < Infinity;
   const quiescentFrom = activeColumn.quiescentFrom;
   // One input record for every cell (no allocation per cell and pass).
-  const cell: Mutable<ActiveLayerInput> = { sigma: 0, temperature: 0, radius: 0, omega: 0, time, index: 0, quiescentTemperature: 0 };
+  const cell: Mutable<ActiveLayerInput> = {
+    sigma: 0, temperature: 0, radius: 0, omega: 0, time, index: 0, quiescentTemperature: 0, derivativeProbe: fields.derivativeProbe === true,
+  };
   const { nu, temperature, sigmaActive: sigmaActiveOut } = fields;
   let qMin = Infinity;
   let fragmenting = false;

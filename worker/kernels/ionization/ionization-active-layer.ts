@@ -107,7 +107,9 @@ export function createIonizationActiveColumn(o: IonizationLayerOptions): Ionizat
     stats.calls++;
     const gm = omega * omega * radius * radius * radius;
     const zetaRadio = radionuclideRate(rn.zetaAl26, rn.zetaK40, rn.meanLife, time);
-    if (changed(gm, refGm, tol) || changed(zetaRadio, refZetaRadio, tol)) {
+    // GM is read from each cell's Ω²R³, which differ in the last bits from cell to cell: a floor of 1e-12 keeps
+    // tolerance 0 from treating that round-off as a change of M_* (and re-running every cell at every call).
+    if (changed(gm, refGm, Math.max(tol, 1e-12)) || changed(zetaRadio, refZetaRadio, tol)) {
       refGm = gm;
       refZetaRadio = zetaRadio;
       generation++;
@@ -119,8 +121,7 @@ export function createIonizationActiveColumn(o: IonizationLayerOptions): Ionizat
     let ion: number;
     if (
       lastGeneration[index] === generation &&
-      !changed(sigma, lastSigma[index], tol) &&
-      !changed(temperature, lastTemperature[index], tol)
+      (cell.derivativeProbe === true || (!changed(sigma, lastSigma[index], tol) && !changed(temperature, lastTemperature[index], tol)))
     ) {
       ion = wasFull[index] === 1 ? sigma : Math.min(ionActive[index], sigma);
     } else {

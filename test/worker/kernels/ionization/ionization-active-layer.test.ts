@@ -68,6 +68,18 @@ describe('ionization provider', () => {
     expect(p.stats.refreshes).toBe(0);
   });
 
+  it('a derivative probe (the flux-linearisation pass) answers from the cache, even at tolerance 0', () => {
+    const p = createIonizationActiveColumn(ionOptions({ ion_refresh_tol: 0 }));
+    const a = p(cell(1, 1700, 280));
+    expect(p(cell(2, 600, 200, 1))).toBeGreaterThan(0);
+    // Ω²R³ of the two cells differs in the last bits: that is not a change of M_*.
+    expect(p.stats.globalRefreshes).toBe(1);
+    expect(p({ ...cell(1, 1700 * (1 + 1e-4), 280), derivativeProbe: true })).toBe(a);
+    expect(p.stats.refreshes).toBe(2);
+    p(cell(1, 1700 * (1 + 1e-4), 280)); // the same change, not a probe: tolerance 0 re-runs the kernel
+    expect(p.stats.refreshes).toBe(3);
+  });
+
   it('re-evaluates a cell only when Σ or T moved by more than the tolerance', () => {
     const p = createIonizationActiveColumn(ionOptions({ ion_refresh_tol: 0.05 }));
     const a = p(cell(1, 1700, 280));
