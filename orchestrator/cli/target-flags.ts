@@ -3,7 +3,7 @@
  * report, export --target), defined once so they read and fail alike. Targets and filters are parsed by the
  * query layer (orchestrator/query); this only collects the flag text.
  */
-import type { Command } from 'commander';
+import { Option, type Command } from 'commander';
 import { DisksweepError } from '../../shared/errors.js';
 import { parseTarget, type TargetInvocation } from '../query/index.js';
 
@@ -15,7 +15,11 @@ export interface TargetFlags {
 
 export function withTargetOptions(cmd: Command, options: { targetRequired: boolean }): Command {
   return cmd
-    .option('-t, --target <target>', `a target, e.g. solar-split or 'accretion-window(at_myr=1)' (repeatable: all must hold${options.targetRequired ? '' : '; optional'})`, (v: string, acc: string[]) => [...acc, v], [] as string[])
+    .addOption(
+      new Option('-t, --target <target>', `a target, e.g. solar-split or 'accretion-window(at_myr=1)' (repeatable: all must hold${options.targetRequired ? '' : '; optional'})`)
+        .argParser((v: string, acc: string[]) => [...acc, v])
+        .default([] as string[], 'none'),
+    )
     .option('-w, --where <filter>', "only the points this filter accepts, e.g. 'alpha_active >= 1e-3 and m_star_msun@1myr > 0.5'")
     .option('--sweep <id-or-name>', 'which sweep (id prefix or name); default: the only or the latest one');
 }
