@@ -35,6 +35,11 @@ export interface CompileContext {
   readonly checkpointColumns: ReadonlySet<string>;
   /** Checkpoint times of the sweep, Myr, ascending. */
   readonly checkpointTimes: readonly number[];
+  /**
+   * The solar-like split thresholds every point of the sweep ran with, or null when the sweep varies them
+   * (then each point's own are compared, in SQL).
+   */
+  readonly splitThresholds: { readonly fMass: number; readonly fJ: number } | null;
 }
 
 /** How errors about one input are reported: with a caret into its text, or as a message about a target. */
@@ -56,6 +61,7 @@ const SQL_COMPARE: Readonly<Record<CompareOp, string>> = { '<': '<', '<=': '<=',
  */
 export class SqlAssembler {
   private readonly joins = new Map<number, string>();
+  private pointsRead = false;
 
   constructor(private readonly ctx: CompileContext) {}
 
@@ -66,6 +72,11 @@ export class SqlAssembler {
       this.fail(site, expr.column, `this is a ${t.type === 'text' ? 'text value' : 'number'}, not a condition: compare it (e.g. ${t.name?.name ?? 'x'} > 0)`);
     }
     return { sql: t.sql, binds: t.binds };
+  }
+
+  /** True once a compiled condition reads a column of points (`p`): the statement must join it. */
+  get readsPoints(): boolean {
+    return this.pointsRead;
   }
 
   /** `LEFT JOIN checkpoint_rows cK ...` for every checkpoint time the compiled conditions read. */
@@ -160,6 +171,7 @@ export class SqlAssembler {
       n = bare;
       this.requireColumn(n.source === 'parameter' ? ctx.pointColumns : ctx.resultColumns, n, site);
       column = `${n.source === 'parameter' ? 'p' : 'r'}.${ident(n.name)}`;
+      if (n.source === 'parameter') this.pointsRead = true;
     }
     if (n.type === 'flag') return { sql: `COALESCE(${column} = 1, 0)`, binds: [], type: 'bool', name: n };
     return { sql: column, binds: [], type: n.type === 'text' ? 'text' : 'number', name: n };
@@ -224,11 +236,20 @@ export class SqlAssembler {
       const n = BARE_NAMES.get(name);
       if (n !== undefined) this.requireColumn(have, n, site);
     }
+    const recorded = `r.${ident('t_solar_split_myr')}`;
+    const fromSeries =
+      `(SELECT ${SPLIT_FUNCTION}(s.columns, s.n_samples, s.data, ?, ?, r.${ident('t_infall_end_myr')}) FROM series_rows s WHERE s.point_key = r.point_key)`;
+    const same = this.ctx.splitThresholds;
+    if (same !== null) {
+      // One pair of thresholds for the whole sweep: the recorded time, or the series for every point.
+      return same.fMass === fMass && same.fJ === fJ
+        ? { sql: recorded, binds: [], type: 'number' }
+        : { sql: fromSeries, binds: [fMass, fJ], type: 'number' };
+    }
     // Points run with these thresholds recorded their split time; the others are re-evaluated from the series
     // (the sub-select runs only for them: CASE evaluates its branches lazily).
-    const sql =
-      `(CASE WHEN p.${ident('f_mass_star')} = ? AND p.${ident('f_j_disk_max')} = ? THEN r.${ident('t_solar_split_myr')} ` +
-      `ELSE (SELECT ${SPLIT_FUNCTION}(s.columns, s.n_samples, s.data, ?, ?, r.${ident('t_infall_end_myr')}) FROM series_rows s WHERE s.point_key = r.point_key) END)`;
+    this.pointsRead = true;
+    const sql = `(CASE WHEN p.${ident('f_mass_star')} = ? AND p.${ident('f_j_disk_max')} = ? THEN ${recorded} ELSE ${fromSeries} END)`;
     return { sql, binds: [fMass, fJ, fMass, fJ], type: 'number' };
   }
 }

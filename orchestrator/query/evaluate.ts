@@ -120,19 +120,21 @@ function registerCollector(db: Database.Database): void {
 
 function compileContext(db: Database.Database, space: SweepSpace): CompileContext {
   const names = (t: 'points' | 'results' | 'checkpoint_rows') => new Set(tableColumns(db, t).keys());
-  return { pointColumns: names('points'), resultColumns: names('results'), checkpointColumns: names('checkpoint_rows'), checkpointTimes: space.checkpointTimes };
+  return {
+    pointColumns: names('points'), resultColumns: names('results'), checkpointColumns: names('checkpoint_rows'),
+    checkpointTimes: space.checkpointTimes, splitThresholds: space.splitThresholds,
+  };
 }
 
 function solarSplitNotes(targets: readonly TargetInvocation[], space: SweepSpace): string[] {
   const notes: string[] = [];
   for (const t of targets) {
     if (t.descriptor.name !== 'solar-split') continue;
-    const varied = space.parameters.some((p) => p.name === 'f_mass_star' || p.name === 'f_j_disk_max');
-    const recorded = !varied && space.fixedValue('f_mass_star') === t.args.f_m && space.fixedValue('f_j_disk_max') === t.args.f_j;
-    if (!recorded) {
+    const same = space.splitThresholds;
+    if (same === null || same.fMass !== t.args.f_m || same.fJ !== t.args.f_j) {
       const samples = Number(space.fixedValue('n_series'));
       const dt = Number.isFinite(samples) && samples > 1 ? ` (samples every ${(space.tEndMyr.max / (samples - 1)).toPrecision(2)} Myr or less)` : '';
-      notes.push(`${t.text}: thresholds differ from those the models ran with, so the first passage is re-evaluated from the stored time series${dt}`);
+      notes.push(`${t.text}: thresholds differ from those ${same === null ? 'some of ' : ''}the models ran with, so the first passage is re-evaluated from the stored time series${dt}`);
     }
     const tMax = t.args.t_max_myr;
     if (typeof tMax === 'number' && tMax > space.tEndMyr.min) {
@@ -142,12 +144,15 @@ function solarSplitNotes(targets: readonly TargetInvocation[], space: SweepSpace
   return notes;
 }
 
-interface Plan {
-  readonly statement: string;
-  readonly binds: readonly SqlValue[];
+/** The compiled parts of one query: pass flag, filter, joins, whether points must be joined. */
+interface Compiled {
+  readonly pass: SqlFragment;
+  readonly where: SqlFragment | null;
+  readonly joins: SqlFragment;
+  readonly readsPoints: boolean;
 }
 
-function buildPlan(db: Database.Database, sweepKey: number, space: SweepSpace, request: EvaluateRequest): Plan {
+function compile(db: Database.Database, space: SweepSpace, request: Pick<EvaluateRequest, 'targets' | 'where'>): Compiled {
   const asm = new SqlAssembler(compileContext(db, space));
   const conditions: SqlFragment[] = request.targets.map((t) =>
     asm.condition(t.descriptor.build(t.args), { text: t.text, source: `--target ${t.text}`, caret: false }),
@@ -156,14 +161,65 @@ function buildPlan(db: Database.Database, sweepKey: number, space: SweepSpace, r
     ? { sql: '1', binds: [] }
     : { sql: conditions.map((c) => c.sql).join(' AND '), binds: conditions.flatMap((c) => c.binds) };
   const where = request.where === undefined ? null : asm.condition(parseFilter(request.where), { text: request.where, source: '--where', caret: true });
-  const joins = asm.joinClause();
-  const columns = space.parameters.map((p) => `p.${ident(p.name)}`);
-  const args = ['p.point_index', `(${pass.sql})`, ...columns, ...(request.withPointIds === true ? ['r.point_id'] : [])];
+  return { pass, where, joins: asm.joinClause(), readsPoints: asm.readsPoints };
+}
+
+/** `SELECT <what> FROM results r [JOIN points p] <joins> WHERE <this sweep, ok> [AND <where>]`, with its binds. */
+function statement(c: Compiled, sweepKey: number, what: SqlFragment, joinPoints: boolean): { sql: string; binds: readonly SqlValue[] } {
   const { from, to } = sweepKeyRange(sweepKey);
-  const statement =
-    `SELECT ${COLLECT}(${args.join(', ')}) FROM results r JOIN points p ON p.point_key = r.point_key ${joins.sql} ` +
-    `WHERE r.point_key >= ? AND r.point_key < ? AND r.status = ?${where === null ? '' : ` AND ${where.sql}`}`;
-  return { statement, binds: [...pass.binds, ...joins.binds, from, to, 'ok', ...(where?.binds ?? [])] };
+  const sql =
+    `SELECT ${what.sql} FROM results r ${joinPoints ? 'JOIN points p ON p.point_key = r.point_key ' : ''}${c.joins.sql} ` +
+    `WHERE r.point_key >= ? AND r.point_key < ? AND r.status = ?${c.where === null ? '' : ` AND ${c.where.sql}`}`;
+  return { sql, binds: [...what.binds, ...c.joins.binds, from, to, 'ok', ...(c.where?.binds ?? [])] };
+}
+
+/** The sweep a request means, its space, its key and the notes about both. */
+function resolve(store: StoreReader, request: Pick<EvaluateRequest, 'sweep' | 'targets'>): { sweep: SweepRecord; space: SweepSpace; sweepKey: number; notes: string[] } {
+  const several = store.listSweeps().length > 1;
+  const sweep = pickSweep(store, request.sweep, 'latest');
+  const notes: string[] = [];
+  if (several && request.sweep === undefined) notes.push(`${store.file} holds several sweeps: using the latest, ${sweep.name} (${sweep.sweepId.slice(0, 12)}); choose another with --sweep`);
+  const space = sweepSpace(sweep);
+  notes.push(...solarSplitNotes(request.targets, space));
+  const { sweepKey } = new SweepKeys(store.connection).require(sweep.sweepId);
+  registerSplitFunction(store.connection);
+  return { sweep, space, sweepKey, notes };
+}
+
+function run<T>(db: Database.Database, sql: string, binds: readonly SqlValue[], get: (st: Database.Statement) => T): T {
+  try {
+    return get(db.prepare(sql));
+  } catch (error) {
+    throw new DisksweepError('internal/unexpected', `the query statement failed: ${error instanceof Error ? error.message : String(error)}`, { cause: error });
+  }
+}
+
+/** Just the counts of a request (no per-point columns): one scan of the results, joining points only if asked. */
+export interface TargetCounts {
+  readonly sweep: SweepRecord;
+  readonly counts: Evaluation['counts'];
+  readonly notes: readonly string[];
+}
+
+/**
+ * How many points of a sweep pass the targets, without collecting them: the quick answer (pass count and
+ * fraction). Reads the points table only when a condition needs a parameter. Same errors as evaluateTargets.
+ */
+export function countTargets(store: StoreReader, request: Omit<EvaluateRequest, 'withPointIds'>): TargetCounts {
+  const db = store.connection;
+  const { sweep, space, sweepKey, notes } = resolve(store, request);
+  const c = compile(db, space, request);
+  const q = statement(c, sweepKey, { sql: `count(*), total(${c.pass.sql})`, binds: c.pass.binds }, c.readsPoints);
+  const [selected, passed] = run(db, q.sql, q.binds, (st) => st.raw(true).get(...q.binds) as [number, number]);
+  return { sweep, counts: { points: sweep.nPoints, ok: okCount(store, sweep, request, selected), selected, passed }, notes };
+}
+
+/**
+ * Points with an ok result: without --where every ok point is selected; with one, the ok rows are counted apart
+ * (a scan of the small status index, not of the result rows).
+ */
+function okCount(store: StoreReader, sweep: SweepRecord, request: { where?: string }, selected: number): number {
+  return request.where === undefined ? selected : Math.max(selected, store.statusCounts(sweep.sweepId).byStatus.ok ?? 0);
 }
 
 /**
@@ -174,16 +230,10 @@ function buildPlan(db: Database.Database, sweepKey: number, space: SweepSpace, r
  */
 export function evaluateTargets(store: StoreReader, request: EvaluateRequest): Evaluation {
   const db = store.connection;
-  const several = store.listSweeps().length > 1;
-  const sweep = pickSweep(store, request.sweep, 'latest');
-  const notes: string[] = [];
-  if (several && request.sweep === undefined) notes.push(`${store.file} holds several sweeps: using the latest, ${sweep.name} (${sweep.sweepId.slice(0, 12)}); choose another with --sweep`);
-  const space = sweepSpace(sweep);
-  notes.push(...solarSplitNotes(request.targets, space));
-  const { sweepKey } = new SweepKeys(db).require(sweep.sweepId);
-  const plan = buildPlan(db, sweepKey, space, request);
-
-  registerSplitFunction(db);
+  const { sweep, space, sweepKey, notes } = resolve(store, request);
+  const c = compile(db, space, request);
+  const args = ['p.point_index', `(${c.pass.sql})`, ...space.parameters.map((p) => `p.${ident(p.name)}`), ...(request.withPointIds === true ? ['r.point_id'] : [])];
+  const q = statement(c, sweepKey, { sql: `${COLLECT}(${args.join(', ')})`, binds: c.pass.binds }, true);
   registerCollector(db);
   // Sized for every point of the sweep; rows that arrive while we read (a running sweep) stay within it.
   const s: Sink = {
@@ -196,16 +246,11 @@ export function evaluateTargets(store: StoreReader, request: EvaluateRequest): E
   };
   sink = s;
   try {
-    db.prepare(plan.statement).pluck().get(...plan.binds);
-  } catch (error) {
-    throw new DisksweepError('internal/unexpected', `the query statement failed: ${error instanceof Error ? error.message : String(error)}`, { cause: error });
+    run(db, q.sql, q.binds, (st) => st.pluck().get(...q.binds));
   } finally {
     sink = null;
   }
   const n = s.n;
-  // Without --where every ok point is selected; with one, the ok rows are counted apart (a scan of the small
-  // status index, not of the result rows).
-  const ok = request.where === undefined ? n : Math.max(n, store.statusCounts(sweep.sweepId).byStatus.ok ?? 0);
   let passed = 0;
   for (let i = 0; i < n; i++) passed += s.pass[i];
   return {
@@ -214,7 +259,7 @@ export function evaluateTargets(store: StoreReader, request: EvaluateRequest): E
     space,
     targets: request.targets,
     where: request.where ?? null,
-    counts: { points: sweep.nPoints, ok, selected: n, passed },
+    counts: { points: sweep.nPoints, ok: okCount(store, sweep, request, n), selected: n, passed },
     pointIndex: s.index.subarray(0, n),
     values: s.values.map((v) => v.subarray(0, n)),
     pass: s.pass.subarray(0, n),

@@ -42,6 +42,8 @@ export interface SweepSpace {
   readonly tEndMyr: { readonly min: number; readonly max: number };
   /** Value of a parameter the sweep does not vary (fixed, model setting or default). */
   fixedValue(name: string): unknown;
+  /** The solar-like split thresholds all its points ran with (f_mass_star, f_j_disk_max); null if it varies them. */
+  readonly splitThresholds: { readonly fMass: number; readonly fJ: number } | null;
 }
 
 function varied(d: Dimension): VariedParameter {
@@ -69,5 +71,7 @@ export function sweepSpace(sweep: SweepRecord): SweepSpace {
   const tEndMyr = tEnd === undefined ? { min: Number(fixedValue('t_end_myr')), max: Number(fixedValue('t_end_myr')) } : { min: tEnd.min, max: tEnd.max };
   const listed = fixedValue('checkpoints_myr');
   const times = Array.isArray(listed) ? listed.filter((t): t is number => typeof t === 'number' && t <= tEndMyr.max) : [];
-  return { parameters, checkpointTimes: [...new Set(times)].sort((a, b) => a - b), tEndMyr, fixedValue };
+  const varies = parameters.some((p) => p.name === 'f_mass_star' || p.name === 'f_j_disk_max');
+  const splitThresholds = varies ? null : { fMass: Number(fixedValue('f_mass_star')), fJ: Number(fixedValue('f_j_disk_max')) };
+  return { parameters, checkpointTimes: [...new Set(times)].sort((a, b) => a - b), tEndMyr, fixedValue, splitThresholds };
 }

@@ -5,7 +5,7 @@
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { DisksweepError } from '../../../shared/errors.js';
-import { evaluateTargets, parseTarget } from '../../../orchestrator/query/index.js';
+import { countTargets, evaluateTargets, parseTarget } from '../../../orchestrator/query/index.js';
 import { firstSplitFromSeries } from '../../../orchestrator/query/series-split.js';
 import { lifetimeOutputName } from '../../../orchestrator/query/targets.js';
 import { openStore, type StoreReader } from '../../../orchestrator/store/index.js';
@@ -133,6 +133,18 @@ describe('evaluateTargets', () => {
     expect(atOne.counts.selected).toBeGreaterThan(0);
     expect(atOne.counts.selected).toBeLessThan(9);
     expect([...atOne.pointIndex]).toEqual(rows.filter((r) => r.m_disk_1 < r.m_disk_msun / 2).map((r) => r.point_index));
+  });
+
+  it('countTargets gives the same counts without collecting the points', () => {
+    for (const [targets, where] of [
+      [['solar-split(t_max_myr=0.5)'], undefined],
+      [['solar-split(f_j=0.015,t_max_myr=0.6)', 'disk-fraction(max=0.005)'], undefined],
+      [['accretion-window(min=1e-10,max=1e-8)'], 'm_disk_msun < 0.03'],
+    ] as const) {
+      const request = { targets: targets.map(parseTarget), where };
+      const full = evaluateTargets(store, request);
+      expect(countTargets(store, request).counts).toEqual(full.counts);
+    }
   });
 
   it('point ids on request', () => {

@@ -19,6 +19,7 @@ const ctx: CompileContext = {
   resultColumns: new Set(SCALAR_COLUMNS.map((c) => c.name)),
   checkpointColumns: new Set(CHECKPOINT_COLUMNS.map((c) => c.name)),
   checkpointTimes: [0.1, 0.5, 1, 3],
+  splitThresholds: null,
 };
 
 function compile(text: string) {
