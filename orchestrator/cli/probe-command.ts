@@ -30,7 +30,8 @@ Examples:
   disksweep probe --r-au 0.1 --sigma-g-cm2 5e4 --t-k 1200 --set thermal_ionization=saha
 
 Thermal ionization: "threshold" (the default) makes the whole column active above t_mri_k, blended over
-+/- t_mri_halfwidth_k so alpha does not jump; "saha" instead computes thermally ionized potassium and sodium
++/- t_mri_halfwidth_k so alpha does not jump (here the switch reads --t-k; in a model it reads, by default, the
+temperature the column would have if it were dead: see activity_temperature in disksweep model --list); "saha" instead computes thermally ionized potassium and sodium
 (Saha equation, NIST ionization energies, Asplund et al. 2009 abundances) and adds their electrons to the
 chemistry by charge neutrality; "none" leaves thermal ionization out.
 

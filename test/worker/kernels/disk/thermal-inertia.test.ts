@@ -3,7 +3,12 @@
  * stepped by backward Euler, checked against its analytic limits and one analytic solution.
  */
 import { describe, expect, it } from 'vitest';
-import { K_BOLTZMANN_CGS, MEAN_MOLECULAR_WEIGHT, M_HYDROGEN_CGS, SIGMA_SB_CGS } from '../../../../shared/constants.js';
+import { AU_CGS, GM_SUN_CGS, K_BOLTZMANN_CGS, MEAN_MOLECULAR_WEIGHT, M_HYDROGEN_CGS, SIGMA_SB_CGS } from '../../../../shared/constants.js';
+import { uniformActiveLayer } from '../../../../worker/kernels/disk/active-layer.js';
+import { makeLogGrid } from '../../../../worker/kernels/disk/grid.js';
+import { constantOpacity } from '../../../../worker/kernels/disk/opacity.js';
+import { computeTransportCoefficients } from '../../../../worker/kernels/disk/transport-coefficients.js';
+import { runModel } from '../../../../worker/model.js';
 import { GAMMA_ADIABATIC } from '../../../../worker/kernels/disk/gravitational-instability.js';
 import {
   SPECIFIC_HEAT_CGS,
@@ -75,5 +80,38 @@ describe('backward-Euler relaxation', () => {
     expect(coarse).toBeLessThan(5e-3);
     expect(coarse / fine).toBeGreaterThan(1.9);
     expect(coarse / fine).toBeLessThan(2.1);
+  });
+});
+
+describe('thermal inertia in the coefficient pass and in a model', () => {
+  it('a short step keeps the temperature near its old value, a long one reaches the equilibrium', () => {
+    const grid = makeLogGrid(0.9 * AU_CGS, 1.1 * AU_CGS, 2);
+    const sigma = Float64Array.of(2000, 2000);
+    const omega = grid.centers.map((r) => Math.sqrt(GM_SUN_CGS / r ** 3));
+    const physics = {
+      alphaActive: 0.01, alphaDead: 0.01, activeColumn: uniformActiveLayer.create({}), opacity: constantOpacity(1), gi: null,
+      baseTemperature4: Float64Array.of(100 ** 4, 100 ** 4), thermalInertia: true,
+    };
+    const equilibrium = { nu: new Float64Array(2), temperature: new Float64Array(2) };
+    computeTransportCoefficients(grid, sigma, omega, physics, equilibrium);
+    const tEq = equilibrium.temperature[0];
+    const tCool = coolingTime(1, 2000, tEq);
+    const short = { nu: new Float64Array(2), temperature: Float64Array.of(300, 300) };
+    computeTransportCoefficients(grid, sigma, omega, physics, short, 0, 1e-3 * tCool);
+    expect(short.temperature[0]).toBeGreaterThan(300);
+    expect(short.temperature[0]).toBeLessThan(305);
+    const long = { nu: new Float64Array(2), temperature: Float64Array.of(300, 300) };
+    computeTransportCoefficients(grid, sigma, omega, physics, long, 0, 1e4 * tCool);
+    expect(Math.abs(long.temperature[0] - tEq) / tEq).toBeLessThan(1e-3);
+  });
+
+  it('thermal_inertia=on changes a uniform disk model little (t_cool << t_visc) and keeps its budgets', () => {
+    const off = runModel({ initial_state: 'disk', n_cells: 100, t_end_myr: 1, checkpoints_myr: [0.1, 1] });
+    const on = runModel({ initial_state: 'disk', n_cells: 100, t_end_myr: 1, checkpoints_myr: [0.1, 1], thermal_inertia: 'on' });
+    expect(on.status).toBe('ok');
+    expect(on.scalars.mass_budget_rel_err).toBeLessThanOrEqual(1e-10);
+    expect(on.scalars.j_budget_rel_err).toBeLessThanOrEqual(1e-10);
+    const last = (r: typeof on) => r.checkpoints[r.checkpoints.length - 1];
+    expect(Math.abs((last(on).m_disk_msun as number) / (last(off).m_disk_msun as number) - 1)).toBeLessThan(0.01);
   });
 });
