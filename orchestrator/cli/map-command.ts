@@ -6,7 +6,7 @@
 import { Command } from 'commander';
 import { z } from 'zod';
 import { DisksweepError } from '../../shared/errors.js';
-import { DEFAULT_BINS, MAX_BINS, gridHeatMap, passGrid, type MapAxis, type PassGrid } from '../map/pass-grid.js';
+import { DEFAULT_BINS, MAX_BINS, gridHeatMap, gridTerminalMap, passGrid, type MapAxis, type PassGrid } from '../map/pass-grid.js';
 import { svgDocument } from '../plots/svg.js';
 import { svgToPng } from '../plots/png.js';
 import { renderTerminalMap } from '../plots/terminal-map.js';
@@ -58,7 +58,7 @@ export function mapTitle(ev: Evaluation): string {
 }
 
 
-const axisJson = (a: MapAxis) => ({ name: a.parameter.name, unit: a.parameter.unit, scale: a.axis, edges: a.edges, label: a.label });
+const axisJson = (a: MapAxis) => ({ name: a.parameter.name, unit: a.parameter.unit, scale: a.axis, edges: a.edges, categories: a.categories, label: a.label });
 
 function mapJson(ev: Evaluation, grid: PassGrid): unknown {
   return {
@@ -93,7 +93,7 @@ function mapAction(dbFile: string, flags: MapFlags): void {
       `${c.passed} of ${c.selected} selected points pass (${((100 * c.passed) / c.selected).toFixed(1)} %); ${c.ok} of ${c.points} points have an ok result`,
       ...ev.notes.map((n) => `note: ${n}`),
       '',
-      renderTerminalMap({ xLabel: grid.x.label, yLabel: grid.y.label, xAxis: grid.x.axis, yAxis: grid.y.axis, xEdges: grid.x.edges, yEdges: grid.y.edges, values: grid.fractions }),
+      renderTerminalMap(gridTerminalMap(grid)),
       ...(flags.svg !== undefined ? [`wrote ${flags.svg}`] : []),
       ...(flags.png !== undefined ? [`wrote ${flags.png}`] : []),
     ].join('\n') + '\n');

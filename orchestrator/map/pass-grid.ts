@@ -12,6 +12,7 @@ import { DisksweepError } from '../../shared/errors.js';
 import type { Evaluation, VariedParameter } from '../query/index.js';
 import { heatMap } from '../plots/heat-map.js';
 import type { Figure } from '../plots/svg.js';
+import type { MapGrid } from '../plots/terminal-map.js';
 import type { AxisKind } from '../plots/ticks.js';
 
 export interface MapAxis {
@@ -19,8 +20,10 @@ export interface MapAxis {
   readonly axis: AxisKind;
   /** Bin edges in parameter units (choices: index ± 0.5), ascending, bins + 1 of them. */
   readonly edges: readonly number[];
-  /** The axis label: name, unit, and for a choice what each index means. */
+  /** The axis label: name and unit. */
   readonly label: string;
+  /** For a choice parameter, the name of each bin's choice; null for numbers. */
+  readonly categories: readonly string[] | null;
 }
 
 export interface PassGrid {
@@ -47,24 +50,24 @@ export function edgesAround(values: readonly number[], toSpace: (v: number) => n
 export function mapAxis(p: VariedParameter, bins: number, gridPlan: boolean): MapAxis {
   const unit = p.unit === '' || p.unit === '1' ? '' : ` [${p.unit}]`;
   if (p.kind === 'choice') {
-    const names = (p.values ?? []).map((v, k) => `${k} ${String(v)}`).join(', ');
-    return { parameter: p, axis: 'linear', edges: Array.from({ length: (p.values ?? []).length + 1 }, (_, k) => k - 0.5), label: `${p.name} (${names})` };
+    const categories = (p.values ?? []).map(String);
+    return { parameter: p, axis: 'linear', edges: Array.from({ length: categories.length + 1 }, (_, k) => k - 0.5), label: p.name, categories };
   }
   const log = p.logSpace;
   const toSpace = log ? Math.log10 : (v: number) => v;
   const fromSpace = log ? (u: number) => 10 ** u : (u: number) => u;
   const axis: AxisKind = log ? 'log' : 'linear';
   const label = `${p.name}${unit}`;
-  if (p.values !== null) return { parameter: p, axis, edges: edgesAround(p.values as number[], toSpace, fromSpace), label };
+  if (p.values !== null) return { parameter: p, axis, edges: edgesAround(p.values as number[], toSpace, fromSpace), label, categories: null };
   if (gridPlan && p.count !== null) {
     const n = p.count;
     const [a, b] = [toSpace(p.min), toSpace(p.max)];
     const grid = Array.from({ length: n }, (_, k) => fromSpace(n === 1 ? a : a + ((b - a) * k) / (n - 1)));
-    return { parameter: p, axis, edges: edgesAround(grid, toSpace, fromSpace), label };
+    return { parameter: p, axis, edges: edgesAround(grid, toSpace, fromSpace), label, categories: null };
   }
   const [a, b] = [toSpace(p.min), toSpace(p.max)];
-  if (!(b > a)) return { parameter: p, axis, edges: edgesAround([p.min], toSpace, fromSpace), label };
-  return { parameter: p, axis, edges: Array.from({ length: bins + 1 }, (_, k) => fromSpace(a + ((b - a) * k) / bins)), label };
+  if (!(b > a)) return { parameter: p, axis, edges: edgesAround([p.min], toSpace, fromSpace), label, categories: null };
+  return { parameter: p, axis, edges: Array.from({ length: bins + 1 }, (_, k) => fromSpace(a + ((b - a) * k) / bins)), label, categories: null };
 }
 
 /**
@@ -141,6 +144,15 @@ export function passGrid(ev: Evaluation, xName: string, yName: string, options: 
 export function gridHeatMap(grid: PassGrid, title: string): Figure {
   return heatMap({
     title, xLabel: grid.x.label, yLabel: grid.y.label, xAxis: grid.x.axis, yAxis: grid.y.axis,
-    xEdges: grid.x.edges, yEdges: grid.y.edges, values: grid.fractions, counts: grid.counts, passes: grid.passes, valueLabel: 'pass fraction',
+    xEdges: grid.x.edges, yEdges: grid.y.edges, xCategories: grid.x.categories, yCategories: grid.y.categories,
+    values: grid.fractions, counts: grid.counts, passes: grid.passes, valueLabel: 'pass fraction',
   });
+}
+
+/** The terminal map of a grid. */
+export function gridTerminalMap(grid: PassGrid): MapGrid {
+  return {
+    xLabel: grid.x.label, yLabel: grid.y.label, xAxis: grid.x.axis, yAxis: grid.y.axis, xEdges: grid.x.edges, yEdges: grid.y.edges,
+    xCategories: grid.x.categories, yCategories: grid.y.categories, values: grid.fractions,
+  };
 }

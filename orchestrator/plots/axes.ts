@@ -29,8 +29,14 @@ export function dataRange(kind: AxisKind, values: Iterable<number>): { lo: numbe
   return lo <= hi ? { lo, hi } : undefined;
 }
 
-export function makeScale(kind: AxisKind, lo: number, hi: number, from: number, to: number, tight = false): Scale {
-  const t = axisTicks(kind, lo, hi, tight);
+/**
+ * A scale from [lo, hi] to pixels [from, to]. `categories` makes it a categorical axis: category k sits at
+ * value k and is labelled with its name (a choice parameter, drawn by index).
+ */
+export function makeScale(kind: AxisKind, lo: number, hi: number, from: number, to: number, tight = false, categories: readonly string[] | null = null): Scale {
+  const t = categories === null
+    ? axisTicks(kind, lo, hi, tight)
+    : { min: lo, max: hi, ticks: categories.map((label, value) => ({ value, label, major: true })) };
   const f = kind === 'log' ? Math.log10 : (v: number) => v;
   const a = f(t.min);
   const b = f(t.max);

@@ -26,6 +26,8 @@ export interface BarChart {
   readonly xLabel: string;
   readonly yLabel: string;
   readonly xAxis: AxisKind;
+  /** Bar k is category k (a choice parameter): the axis is labelled with these names. */
+  readonly xCategories?: readonly string[] | null;
   readonly bars: readonly Bar[];
   /** Default [0, 1]. */
   readonly yRange?: readonly [number, number];
@@ -48,14 +50,14 @@ export function barChart(chart: BarChart): Figure {
   if (chart.bars.length === 0) return { width, height, title: chart.title, body: title + text(width / 2, height / 2, 'no data to plot', { 'text-anchor': 'middle' }) };
   const lo = Math.min(...chart.bars.map((b) => b.lo));
   const hi = Math.max(...chart.bars.map((b) => b.hi));
-  const x = makeScale(chart.xAxis, lo, hi, frame.left, frame.left + frame.width, true);
+  const x = makeScale(chart.xAxis, lo, hi, frame.left, frame.left + frame.width, true, chart.xCategories ?? null);
   const y = makeScale('linear', y0, y1, frame.top + frame.height, frame.top, true);
   const colour = seriesColour(0);
-  const parts = chart.bars.map((b) => {
+  const parts = chart.bars.map((b, k) => {
     const left = x.map(b.lo) + 1;
     const right = x.map(b.hi) - 1;
     const mid = (left + right) / 2;
-    const tip = `${chart.xLabel} ${formatNumber(b.lo)} – ${formatNumber(b.hi)}: ` +
+    const tip = `${chart.xLabel} ${chart.xCategories?.[k] ?? `${formatNumber(b.lo)} – ${formatNumber(b.hi)}`}: ` +
       (b.value === null ? 'no points' : `${formatNumber(b.value)} (n = ${b.n})` + (b.errLo !== null && b.errHi !== null ? `, interval ${formatNumber(b.errLo)} – ${formatNumber(b.errHi)}` : ''));
     if (b.value === null) {
       return el('g', { class: 'bar empty' }, el('title', {}, escapeXml(tip)) + text(mid, y.map(y0) - 4, 'n=0', { 'text-anchor': 'middle', 'font-size': 9, fill: '#777' }));

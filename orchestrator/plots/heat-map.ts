@@ -35,8 +35,8 @@ export function heatMap(map: HeatMap): Figure {
   const width = map.width ?? 560;
   const height = map.height ?? 440;
   const frame: Frame = { left: MARGIN.left, top: MARGIN.top, width: width - MARGIN.left - MARGIN.right, height: height - MARGIN.top - MARGIN.bottom };
-  const x = makeScale(map.xAxis, map.xEdges[0], map.xEdges[nx], frame.left, frame.left + frame.width, true);
-  const y = makeScale(map.yAxis, map.yEdges[0], map.yEdges[ny], frame.top + frame.height, frame.top, true);
+  const x = makeScale(map.xAxis, map.xEdges[0], map.xEdges[nx], frame.left, frame.left + frame.width, true, map.xCategories ?? null);
+  const y = makeScale(map.yAxis, map.yEdges[0], map.yEdges[ny], frame.top + frame.height, frame.top, true, map.yCategories ?? null);
   const X = map.xEdges.map((e) => x.map(e));
   const Y = map.yEdges.map((e) => y.map(e));
 
@@ -45,9 +45,10 @@ export function heatMap(map: HeatMap): Figure {
     for (let i = 0; i < nx; i++) {
       const k = j * nx + i;
       const f = map.values[k];
+      const range = (edges: readonly number[], cats: readonly string[] | null | undefined, k: number) =>
+        cats?.[k] ?? `${formatNumber(edges[k])} – ${formatNumber(edges[k + 1])}`;
       const tip =
-        `${map.xLabel} ${formatNumber(map.xEdges[i])} – ${formatNumber(map.xEdges[i + 1])}, ` +
-        `${map.yLabel} ${formatNumber(map.yEdges[j])} – ${formatNumber(map.yEdges[j + 1])}: ` +
+        `${map.xLabel} ${range(map.xEdges, map.xCategories, i)}, ${map.yLabel} ${range(map.yEdges, map.yCategories, j)}: ` +
         (Number.isFinite(f) ? `${map.passes[k]} of ${map.counts[k]} pass (${(100 * f).toFixed(0)} %)` : 'no points');
       cells.push(
         el(

@@ -15,6 +15,9 @@ export interface MapGrid {
   readonly yEdges: readonly number[];
   /** Row by row (cell (i, j) at j * nx + i); NaN where a cell has no points. */
   readonly values: ArrayLike<number>;
+  /** Names of the bins of a categorical axis (a choice parameter: bin k is choice k), else absent. */
+  readonly xCategories?: readonly string[] | null;
+  readonly yCategories?: readonly string[] | null;
 }
 
 /** Shades from low to high; a fraction f gets the last shade whose lower bound is ≤ f. */
@@ -37,8 +40,9 @@ export function shadeOf(f: number): string {
 export function renderTerminalMap(m: MapGrid): string {
   const nx = m.xEdges.length - 1;
   const ny = m.yEdges.length - 1;
-  const yTop = formatNumber(m.yEdges[ny]);
-  const yBottom = formatNumber(m.yEdges[0]);
+  // Ends of an axis: its outer edges, or for categories the first and last names.
+  const yTop = m.yCategories?.[ny - 1] ?? formatNumber(m.yEdges[ny]);
+  const yBottom = m.yCategories?.[0] ?? formatNumber(m.yEdges[0]);
   const pad = Math.max(yTop.length, yBottom.length);
   const lines: string[] = [`${' '.repeat(pad)}  ${m.yLabel}${m.yAxis === 'log' ? ' (log)' : ''}`];
   for (let j = ny - 1; j >= 0; j--) {
@@ -48,8 +52,8 @@ export function renderTerminalMap(m: MapGrid): string {
     lines.push(`${label.padStart(pad)} |${row}|`);
   }
   lines.push(`${' '.repeat(pad)} +${'-'.repeat(2 * nx)}+`);
-  const xl = formatNumber(m.xEdges[0]);
-  const xr = formatNumber(m.xEdges[nx]);
+  const xl = m.xCategories?.[0] ?? formatNumber(m.xEdges[0]);
+  const xr = m.xCategories?.[nx - 1] ?? formatNumber(m.xEdges[nx]);
   lines.push(`${' '.repeat(pad + 2)}${xl}${xr.padStart(Math.max(xr.length + 1, 2 * nx - xl.length))}`);
   lines.push(`${' '.repeat(pad + 2)}${m.xLabel}${m.xAxis === 'log' ? ' (log)' : ''}`);
   const bounds = SHADES.map((s, k) => {

@@ -24,9 +24,9 @@ export function marginalFigure(m: Marginal, overall: number): Figure {
     value: b.n === 0 ? null : b.fraction, errLo: b.n === 0 ? null : b.low, errHi: b.n === 0 ? null : b.high,
   }));
   const unit = p.unit === '' || p.unit === '1' ? '' : ` [${p.unit}]`;
-  const choices = p.kind === 'choice' ? ` (${(p.values ?? []).map((v, k) => `${k} ${String(v)}`).join(', ')})` : '';
   return barChart({
-    title: `pass fraction by ${p.name}`, xLabel: `${p.name}${unit}${choices}`, yLabel: 'pass fraction', xAxis: log ? 'log' : 'linear', bars,
+    title: `pass fraction by ${p.name}`, xLabel: `${p.name}${unit}`, yLabel: 'pass fraction', xAxis: log ? 'log' : 'linear', bars,
+    xCategories: p.kind === 'choice' ? (p.values ?? []).map(String) : null,
     reference: Number.isFinite(overall) ? { value: overall, label: 'all selected points' } : undefined,
   });
 }

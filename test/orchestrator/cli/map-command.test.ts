@@ -5,10 +5,10 @@
  * text in the SVG; bad flags exit 2.
  */
 import { readFileSync } from 'node:fs';
-import { beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { runCli } from '../../support/cli.js';
 import { buildQueryDb, deadZoneGridSpec, type QueryDb } from '../../support/query-db.js';
-import { makeTempDir } from '../../support/temp-dir.js';
+import { makeTempDir, removeTempDir } from '../../support/temp-dir.js';
 import { allElements, parseXml, textOf } from '../../support/xml-tree.js';
 
 const HOSTILE = '<script>alert(1)</script>';
@@ -21,6 +21,8 @@ beforeAll(() => {
   made = buildQueryDb(dir, deadZoneGridSpec('wren-hollow', 4, 4), 'wren.sqlite');
   hostile = buildQueryDb(dir, deadZoneGridSpec('wren-hollow', 2, 2), 'hostile.sqlite', { storedName: HOSTILE });
 });
+
+afterAll(() => removeTempDir(dir));
 
 interface MapJson {
   x: { name: string; scale: string; edges: number[] };
@@ -76,6 +78,25 @@ describe('disksweep map', () => {
     const root = parseXml(svg);
     expect(allElements(root).filter((e) => e.name === 'script')).toHaveLength(0);
     expect(textOf(allElements(root).find((e) => e.attrs.class === 'plot-title')!)).toBe(`${HOSTILE}: solar-split(f_m=0.99,f_j=0.02,t_max_myr=3)`);
+  });
+
+  it('labels a choice parameter with its choices (terminal, JSON and SVG ticks)', () => {
+    const spec = deadZoneGridSpec('wren-hollow-layers', 1, 3);
+    (spec.vary as Record<string, unknown>).active_layer = { values: ['uniform', 'fixed_column'] };
+    delete (spec.vary as Record<string, unknown>).m_disk_msun;
+    delete (spec.fixed as Record<string, unknown>).active_layer;
+    const db = buildQueryDb(dir, spec, 'layers.sqlite');
+    const args = ['map', db.path, '--x', 'active_layer', '--y', 'alpha_active', '--target', 'disk-fraction(at_myr=1,max=0.01)'];
+    const json = runCli([...args, '--json']);
+    expect(json.stderr).toBe('');
+    const m = JSON.parse(json.stdout) as MapJson & { x: { categories: string[] } };
+    expect(m.x.categories).toEqual(['uniform', 'fixed_column']);
+    expect(m.cells.count).toEqual([1, 1, 1, 1, 1, 1]);
+    const text = runCli([...args, '--svg', `${dir}/layers.svg`]);
+    expect(text.status).toBe(0);
+    expect(text.stdout).toMatch(/uniform +fixed_column/);
+    const ticks = allElements(parseXml(readFileSync(`${dir}/layers.svg`, 'utf8'))).filter((e) => e.attrs.class === 'tick').map(textOf);
+    expect(ticks).toEqual(expect.arrayContaining(['uniform', 'fixed_column']));
   });
 
   it('refuses bad flags with exit 2 and a message naming them', () => {

@@ -4,10 +4,10 @@
  * plots; --json is the stored run with its series as arrays; --svg and --png write the plots.
  */
 import { readFileSync } from 'node:fs';
-import { beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { runCli } from '../../support/cli.js';
 import { buildQueryDb, deadZoneGridSpec, type QueryDb } from '../../support/query-db.js';
-import { makeTempDir } from '../../support/temp-dir.js';
+import { makeTempDir, removeTempDir } from '../../support/temp-dir.js';
 import { allElements, parseXml, textOf } from '../../support/xml-tree.js';
 
 let dir: string;
@@ -19,6 +19,8 @@ beforeAll(() => {
   db = `${dir}/wren.sqlite`;
   made = buildQueryDb(dir, deadZoneGridSpec('wren-hollow', 3, 3), 'wren.sqlite');
 });
+
+afterAll(() => removeTempDir(dir));
 
 /** The shortest prefix of `id` no other id shares. */
 function prefixes(ids: readonly string[], id: string) {

@@ -4,7 +4,7 @@
  * JSON lines carry the same values; bad flags exit 2.
  */
 import { readFileSync } from 'node:fs';
-import { beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { PARAMS, PARAM_NAMES } from '../../../shared/model-params.js';
 import { CHECKPOINT_OUTPUTS, OUTPUTS, SCALAR_OUTPUTS } from '../../../shared/model-outputs.js';
 import { astropyUnit } from '../../../orchestrator/export/astropy-units.js';
@@ -13,7 +13,7 @@ import { openStore, type StoredOutcome } from '../../../orchestrator/store/index
 import { runCli } from '../../support/cli.js';
 import { parseCsv, readEcsv } from '../../support/ecsv-reader.js';
 import { buildQueryDb, deadZoneGridSpec, type QueryDb } from '../../support/query-db.js';
-import { makeTempDir } from '../../support/temp-dir.js';
+import { makeTempDir, removeTempDir } from '../../support/temp-dir.js';
 
 let dir: string;
 let db: string;
@@ -30,6 +30,8 @@ beforeAll(() => {
   store.writeResults([{ ...last, pointId: 'f'.repeat(32), pointIndex: 8, outcome: { kind: 'infrastructure', reason: REASON } }]);
   store.close();
 });
+
+afterAll(() => removeTempDir(dir));
 
 const TIMES = [0.1, 0.3, 1, 2, 3];
 

@@ -43,7 +43,8 @@ describe('map axes', () => {
     expect(l.edges).toHaveLength(4);
     const c = mapAxis(param({ name: 'active_layer', unit: '', kind: 'choice', scale: 'values', values: ['uniform', 'ionization'], logSpace: false }), 12, false);
     expect(c.edges).toEqual([-0.5, 0.5, 1.5]);
-    expect(c.label).toContain('0 uniform, 1 ionization');
+    expect(c.categories).toEqual(['uniform', 'ionization']);
+    expect(c.label).toBe('active_layer');
   });
 });
 

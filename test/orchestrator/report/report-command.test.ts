@@ -7,12 +7,12 @@
 import { existsSync, mkdirSync, readFileSync, statSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { pathToFileURL } from 'node:url';
-import { beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { safeFileStem } from '../../../orchestrator/report/report-files.js';
 import { runCli } from '../../support/cli.js';
 import { withChromium } from '../../support/headless-chromium.js';
 import { buildQueryDb, deadZoneGridSpec, type QueryDb } from '../../support/query-db.js';
-import { makeTempDir } from '../../support/temp-dir.js';
+import { makeTempDir, removeTempDir } from '../../support/temp-dir.js';
 import { allElements, parseXml, textOf } from '../../support/xml-tree.js';
 
 const HOSTILE = '<script>alert(1)</script>';
@@ -30,6 +30,8 @@ beforeAll(() => {
   const r = runCli(['report', made.path, '--target', 'solar-split', '--out', out]);
   if (r.status !== 0) throw new Error(`report failed (${r.status}):\n${r.stderr}`);
 });
+
+afterAll(() => removeTempDir(dir));
 
 describe('disksweep report: files and escaping', () => {
   it('writes the page and the exports under sanitised names, linked from the page', () => {
@@ -103,6 +105,7 @@ const PAGE_INFO = `({
 describe('disksweep report in headless Chromium', () => {
   it('renders every plot with nonzero size, logs no error, fetches nothing, and is captured', async () => {
     const page = pathToFileURL(join(out, 'index.html')).href;
+    // Kept after the test (its path is printed) so a person can look at the page as rendered.
     const shot = join(makeTempDir('disksweep-report-shot-'), 'report.png');
     const seen = await withChromium(async (context) => {
       const tab = await context.newPage();
