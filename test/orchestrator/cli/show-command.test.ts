@@ -5,6 +5,7 @@
  */
 import { readFileSync } from 'node:fs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { openStore } from '../../../orchestrator/store/index.js';
 import { runCli } from '../../support/cli.js';
 import { buildQueryDb, deadZoneGridSpec, type QueryDb } from '../../support/query-db.js';
 import { makeTempDir, removeTempDir } from '../../support/temp-dir.js';
@@ -17,7 +18,7 @@ let made: QueryDb;
 beforeAll(() => {
   dir = makeTempDir();
   db = `${dir}/wren.sqlite`;
-  made = buildQueryDb(dir, deadZoneGridSpec('wren-hollow', 3, 3), 'wren.sqlite');
+  made = buildQueryDb(dir, deadZoneGridSpec('wren-hollow', 3, 3), 'wren.sqlite', { limit: 8 }); // index 8 is stored below as a failure
 });
 
 afterAll(() => removeTempDir(dir));
@@ -44,8 +45,8 @@ describe('disksweep show', () => {
   });
 
   it('refuses an ambiguous prefix, listing the candidates, and an unknown or malformed one (exit 2)', () => {
-    // Point ids are hashes of the parameters, so these are fixed: of the 9 ids, two share a first digit (the
-    // test data were checked for it), and at least 7 of the 16 hex digits start none.
+    // Point ids are hashes of the parameters, so these are fixed: of the 8 ids, two share a first digit (the
+    // test data were checked for it), and at least 8 of the 16 hex digits start none.
     const first = made.pointIds.map((id) => id[0]);
     const shared = first.find((c, k) => first.indexOf(c) !== k);
     expect(shared).toBeDefined();
@@ -78,8 +79,23 @@ describe('disksweep show', () => {
     expect(Object.keys(out.series).sort()).toEqual(['m_disk_msun', 'm_star_msun', 'mdot_star_msun_yr', 'spin_j_share', 'star_mass_share', 't_myr']);
   });
 
+  it('says so for a point whose run failed outside the model, and has nothing to plot', () => {
+    const store = openStore(db, { mode: 'write' });
+    const failedId = 'e'.repeat(32);
+    store.writeResults([{ ...made.outcomes[0], pointId: failedId, pointIndex: 8, outcome: { kind: 'infrastructure', reason: 'worker thread exited (code 1)' } }]);
+    store.close();
+    const r = runCli(['show', db, failedId]);
+    expect(r.status).toBe(0);
+    expect(r.stdout).toContain('no model result: the run failed outside the model (worker thread exited (code 1))');
+    const j = JSON.parse(runCli(['show', db, failedId, '--json']).stdout) as { status: string; status_reason: string };
+    expect(j).toMatchObject({ status: 'infrastructure_error', status_reason: 'worker thread exited (code 1)' });
+    const svg = runCli(['show', db, failedId, '--svg', `${dir}/f.svg`]);
+    expect(svg.status).toBe(2);
+    expect(svg.stderr).toContain('no model result to plot');
+  });
+
   it('--svg writes five panels as one well-formed SVG; --png a PNG', () => {
-    const id = made.pointIds[8];
+    const id = made.pointIds[7];
     const r = runCli(['show', db, id, '--svg', `${dir}/p.svg`, '--png', `${dir}/p.png`]);
     expect(r.status).toBe(0);
     const root = parseXml(readFileSync(`${dir}/p.svg`, 'utf8'));
