@@ -1,6 +1,6 @@
 /**
  * A pass-fraction map for the terminal: one block character per cell (two columns wide, so cells come out
- * roughly square), darker for higher fractions, with the axis ranges and a legend. The 50 % level is a shade
+ * roughly square; one past 40 cells), darker for higher fractions, with the axis ranges and a legend. The 50 % level is a shade
  * boundary (▒ below, ▓ at or above), so the contour shows as the edge between those two shades.
  */
 import { formatNumber, type AxisKind } from './ticks.js';
@@ -44,17 +44,19 @@ export function renderTerminalMap(m: MapGrid): string {
   const yTop = m.yCategories?.[ny - 1] ?? formatNumber(m.yEdges[ny]);
   const yBottom = m.yCategories?.[0] ?? formatNumber(m.yEdges[0]);
   const pad = Math.max(yTop.length, yBottom.length);
+  // Two columns per cell look square in most terminal fonts; past 40 cells, one keeps the map on a screen.
+  const cw = nx > 40 ? 1 : 2;
   const lines: string[] = [`${' '.repeat(pad)}  ${m.yLabel}${m.yAxis === 'log' ? ' (log)' : ''}`];
   for (let j = ny - 1; j >= 0; j--) {
     let row = '';
-    for (let i = 0; i < nx; i++) row += shadeOf(m.values[j * nx + i]).repeat(2);
+    for (let i = 0; i < nx; i++) row += shadeOf(m.values[j * nx + i]).repeat(cw);
     const label = j === ny - 1 ? yTop : j === 0 ? yBottom : '';
     lines.push(`${label.padStart(pad)} |${row}|`);
   }
-  lines.push(`${' '.repeat(pad)} +${'-'.repeat(2 * nx)}+`);
+  lines.push(`${' '.repeat(pad)} +${'-'.repeat(cw * nx)}+`);
   const xl = m.xCategories?.[0] ?? formatNumber(m.xEdges[0]);
   const xr = m.xCategories?.[nx - 1] ?? formatNumber(m.xEdges[nx]);
-  lines.push(`${' '.repeat(pad + 2)}${xl}${xr.padStart(Math.max(xr.length + 1, 2 * nx - xl.length))}`);
+  lines.push(`${' '.repeat(pad + 2)}${xl}${xr.padStart(Math.max(xr.length + 1, cw * nx - xl.length))}`);
   lines.push(`${' '.repeat(pad + 2)}${m.xLabel}${m.xAxis === 'log' ? ' (log)' : ''}`);
   const bounds = SHADES.map((s, k) => {
     const next = SHADES[k + 1];

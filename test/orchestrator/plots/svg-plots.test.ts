@@ -9,6 +9,7 @@ import { heatMapSvg } from '../../../orchestrator/plots/heat-map.js';
 import { linePlotSvg } from '../../../orchestrator/plots/line-plot.js';
 import { svgToPng } from '../../../orchestrator/plots/png.js';
 import { escapeXml } from '../../../orchestrator/plots/svg.js';
+import { renderTerminalMap, shadeOf } from '../../../orchestrator/plots/terminal-map.js';
 import { allElements, parseXml, textOf, type XmlElement } from '../../support/xml-tree.js';
 
 const HOSTILE = '<script>alert(1)</script> & "q" \'a\'';
@@ -153,5 +154,31 @@ describe('PNG', () => {
   it('renders a whole plot at twice its size', () => {
     const png = svgToPng(linePlotSvg({ title: 'a', xLabel: 'x', yLabel: 'y', series: [{ label: 's', x: [0, 1], y: [0, 1] }] }));
     expect(png.readUInt32BE(16)).toBe(1120); // IHDR width
+  });
+});
+
+describe('terminal map', () => {
+  const grid = (nx: number) => ({
+    xLabel: 'alpha_active', yLabel: 'm_core_msun', xAxis: 'log' as const, yAxis: 'linear' as const,
+    xEdges: Array.from({ length: nx + 1 }, (_, i) => 10 ** (-4 + (3 * i) / nx)), yEdges: [0, 1, 2],
+    values: Array.from({ length: 2 * nx }, (_, k) => (k === 0 ? NaN : (k % nx) / nx)),
+  });
+
+  it('shades by fraction with the 50 % level between ▒ and ▓, marks empty cells, and has a legend', () => {
+    const text = renderTerminalMap(grid(4));
+    const rows = text.split('\n').filter((l) => l.includes('|') && !l.includes('+'));
+    expect(rows).toHaveLength(2);
+    // Bottom row (j = 0): NaN, 0.25, 0.5, 0.75 -> '·', '░', '▓', '█', two columns each.
+    expect(rows[1]).toContain('|··░░▓▓██|');
+    expect(rows[0]).toContain('|  ░░▓▓██|');
+    expect(text).toContain('[··] no points');
+    expect(text).toContain('alpha_active (log)');
+    expect(shadeOf(0.4999)).toBe('▒');
+    expect(shadeOf(0.5)).toBe('▓');
+  });
+
+  it('uses one column per cell past 40 cells', () => {
+    const rows = renderTerminalMap(grid(60)).split('\n').filter((l) => l.includes('|') && !l.includes('+'));
+    expect(rows[0].split('|')[1]).toHaveLength(60);
   });
 });
