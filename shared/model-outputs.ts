@@ -50,6 +50,11 @@ export const CHECKPOINT_OUTPUTS = [
   cp('r_dead_out_au', 'AU', 'outer edge of the outermost dead band, to one cell (null without a dead zone)', { nullable: true }),
   cp('m_dead_msun', 'M_sun', 'mass in the dead parts of the columns, sum of (Sigma - Sigma_a) over the disk'),
   cp('sigma_active_1au_g_cm2', 'g cm^-2', 'MRI-active column Sigma_a (both faces) in the cell holding 1 AU (null off the grid)', { nullable: true }),
+  cp('l_star_lsun', 'L_sun', 'luminosity irradiating the disk, L_phot + L_acc (L_acc from the accretion rate of the step before)'),
+  cp('l_acc_lsun', 'L_sun', 'accretion luminosity G M_* Mdot_* / R_* (1 - R_*/R_in) (0 with accretion_luminosity=off)'),
+  cp('m_wind_msun', 'M_sun', 'mass removed by the photoevaporative winds, so far'),
+  cp('mdot_wind_msun_yr', 'M_sun/yr', 'mass-loss rate of all photoevaporative winds over the last step'),
+  cp('r_cavity_au', 'AU', 'radius of the inner cavity (where the midplane column from R_in reaches n_h_cavity_cm2); null while there is none', { nullable: true }),
   cp('active_share_1au', '1', 'share of the accretion flow at 1 AU carried by the active layers: alpha_active Sigma_a / (alpha_eff Sigma), alpha_eff with the dead-zone and GI parts (null for an empty cell)', { nullable: true }),
 ] as const;
 
@@ -78,6 +83,15 @@ export const SCALAR_OUTPUTS = [
   sc('n_outbursts', '1', 'accretion outbursts: runs of steps with Mdot_* above 10x its mean over the preceding 1e4 yr'),
   sc('m_outbursts_msun', 'M_sun', 'mass the star accreted during outbursts'),
   sc('t_first_outburst_myr', 'Myr', 'start of the first outburst (null if none)', { nullable: true }),
+  sc('disk_lifetime_myr', 'Myr', 'disk lifetime: first time after infall that M_disk < disk_end_mass_msun or Mdot_* < disk_end_mdot_msun_yr (null if not by t_end)', { nullable: true }),
+  sc('disk_lifetime_after_infall_myr', 'Myr', 'the same, counted from the end of infall', { nullable: true }),
+  sc('t_cavity_open_myr', 'Myr', 'first time after infall that an inner cavity is open (null if never)', { nullable: true }),
+  sc('r_cavity_open_au', 'AU', 'radius of the inner cavity when it first opened (null if never)', { nullable: true }),
+  sc('m_wind_msun', 'M_sun', 'mass removed by all photoevaporative winds'),
+  sc('m_wind_xray_msun', 'M_sun', 'mass removed by the internal X-ray wind'),
+  sc('m_wind_euv_msun', 'M_sun', 'mass removed by the internal EUV wind (diffuse and direct field)'),
+  sc('m_wind_fuv_msun', 'M_sun', 'mass removed by the external FUV wind'),
+  sc('j_wind_g_cm2_s', 'g cm^2 s^-1', 'angular momentum carried off by the winds'),
 ] as const;
 
 export const OUTPUTS: readonly OutputDescriptor[] = [...CHECKPOINT_OUTPUTS, ...SCALAR_OUTPUTS];

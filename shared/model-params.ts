@@ -134,8 +134,9 @@ export const PARAMS = {
   lx_erg_s: num({
     unit: 'erg s^-1', default: 1e30, min: 0, max: 1e33,
     description:
-      'active_layer=ionization: stellar X-ray luminosity (spectrum: xray_spectrum); ionization from the Bai & Goodman ' +
-      '(2009) fit to Igea & Glassgold (1999), proportional to L_X and to (r/AU)^-2.2, from both faces. 0 = no X-rays.',
+      'Stellar X-ray luminosity (lx_scaling=fixed). It drives the X-ray photoevaporative wind (xray_wind_scale) and, ' +
+      'with active_layer=ionization, the X-ray ionization (spectrum: xray_spectrum; Bai & Goodman 2009 fit to Igea & ' +
+      'Glassgold 1999, proportional to L_X and to (r/AU)^-2.2, from both faces). 0 = no X-rays.',
     source: 'common practice: young solar-mass stars have L_X ~ 1e29-1e31 erg/s (Preibisch et al. 2005; from memory)',
   }),
   xray_spectrum: choice({
@@ -294,9 +295,68 @@ export const PARAMS = {
     unit: 'K', default: 10, min: 0, max: 1000,
     description: 'Temperature floor (ambient cloud radiation) added in T^4.',
   }),
-  l_star_lsun: num({
+  l_phot_lsun: num({
     unit: 'L_sun', default: 1, min: 0, max: 1e4,
-    description: 'Stellar luminosity for irradiation, T_irr = 280 K (R/AU)^-1/2 (L/L_sun)^1/4 (Hayashi 1981).',
+    description:
+      'Photospheric luminosity of the star. Irradiation uses L_* = L_phot + L_acc (accretion_luminosity), ' +
+      'T_irr = 280 K (R/AU)^-1/2 (L_*/L_sun)^1/4 (Hayashi 1981).',
+    source: 'common practice: a 1 Myr old solar-mass star has L of about 1-2 L_sun',
+  }),
+  accretion_luminosity: choice({
+    choices: ['on', 'off'],
+    default: 'on',
+    description:
+      'Add the accretion luminosity L_acc = G M_* Mdot_*/R_* (1 - R_*/R_in) to the irradiating luminosity ' +
+      '(Gullbring et al. 1998), with R_* = r_star_rsun, R_in = r_in_au and Mdot_* of the previous step.',
+  }),
+  lx_scaling: choice({
+    choices: ['fixed', 'l_phot'],
+    default: 'fixed',
+    description: 'X-ray luminosity: "fixed" = lx_erg_s; "l_phot" = lx_over_lphot x l_phot_lsun (used by winds and ionization alike).',
+  }),
+  lx_over_lphot: num({
+    unit: '1', default: 3e-4, min: 0, max: 1e-2,
+    description: 'lx_scaling=l_phot: L_X / L_phot.',
+    source: 'common practice: young solar-mass stars have log(L_X/L_bol) of about -3.5 (Preibisch et al. 2005; from memory)',
+  }),
+  xray_wind_scale: num({
+    unit: '1', default: 1, min: 0, max: 100,
+    description:
+      'Internal X-ray photoevaporation (Owen, Ercolano & Clarke 2011; Owen, Clarke & Ercolano 2012 fits, primordial ' +
+      'and inner-hole profiles): factor on the published rate, ~6e-9 (L_X/1e30 erg/s)^1.14 M_sun/yr. 0 = off.',
+    source: 'on by default: the fits come from models irradiated by X-rays and EUV together',
+  }),
+  euv_wind_scale: num({
+    unit: '1', default: 0, min: 0, max: 100,
+    description:
+      'Internal EUV photoevaporation: factor on the diffuse-field rate 4.4e-10 (phi_euv_s/1e41)^1/2 (M_*/M_sun)^1/2 ' +
+      'M_sun/yr outside R_g = G M_*/(10 km/s)^2 (Hollenbach et al. 1994; Clarke, Gendrin & Sotomayor 2001) and on the ' +
+      'direct-field rate from the rim of an inner cavity (Alexander, Clarke & Pringle 2006). 0 = off (the X-ray fits ' +
+      'already include EUV heating).',
+  }),
+  phi_euv_s: num({
+    unit: 's^-1', default: 1e41, min: 0, max: 1e46, logScale: true,
+    description: 'euv_wind_scale > 0: ionizing (EUV) photons emitted by the star per second.',
+    source: 'common practice: 1e41-1e42 s^-1 for T Tauri stars (Alexander, Clarke & Pringle 2005; from memory)',
+  }),
+  fuv_wind_mdot_msun_yr: num({
+    unit: 'M_sun/yr', default: 0, min: 0, max: 1e-4,
+    description:
+      'External FUV photoevaporation by a nearby cluster (Adams et al. 2004): total rate, taken from the disk outside ' +
+      '0.2 G M_*/a_s^2 (a_s of gas at t_fuv_k) in proportion to its mass. 0 = off.',
+    source: 'off by default: it depends on the cluster environment (1e-9 to 1e-6 M_sun/yr near OB stars)',
+  }),
+  t_fuv_k: num({
+    unit: 'K', default: 1000, min: 10, max: 1e4,
+    description: 'fuv_wind_mdot_msun_yr > 0: temperature of the FUV-heated surface gas, which sets where the flow starts.',
+    source: 'Adams et al. 2004: 100-3000 K depending on the field (from memory)',
+  }),
+  n_h_cavity_cm2: num({
+    unit: 'cm^-2', default: 1e22, min: 1e15, max: 1e26, logScale: true,
+    description:
+      'Midplane hydrogen column from r_in_au outward below which the star sees the outer disk directly: an inner ' +
+      'cavity is open and the winds switch to their inner-hole forms.',
+    source: 'Owen, Clarke & Ercolano 2012: X-rays reach the rim once the inner column is below ~1e22 cm^-2 (from memory)',
   }),
   star_mass: choice({
     choices: ['growing', 'fixed'],
@@ -335,6 +395,16 @@ export const PARAMS = {
     unit: '1', default: 0.02, min: 0, max: 1, minExclusive: true,
     description: 'Solar-like split: the star spin may hold at most this share of the angular momentum.',
     source: 'the Sun spin holds about 0.6 % of the solar system angular momentum',
+  }),
+  disk_end_mass_msun: num({
+    unit: 'M_sun', default: 1e-5, min: 0, max: 1,
+    description: 'Disk lifetime: the disk has ended (after infall) once M_disk falls below this ...',
+    source: 'common practice: below ~1e-5 M_sun of gas a disk is not detected',
+  }),
+  disk_end_mdot_msun_yr: num({
+    unit: 'M_sun/yr', default: 1e-11, min: 0, max: 1e-6,
+    description: '... or once the accretion rate onto the star falls below this.',
+    source: 'common practice: accretion below ~1e-11 M_sun/yr is not detected',
   }),
   theta: num({
     unit: '1', default: 1, min: 0.5, max: 1,

@@ -16,3 +16,5 @@ export const rsunToCm = (rsun: number): number => rsun * R_SUN_CGS;
 export const daysToS = (days: number): number => days * DAY_CGS;
 /** Mass flow in g s^-1 to M_sun yr^-1. */
 export const gsToMsunYr = (gs: number): number => (gs * YEAR_CGS) / M_SUN_CGS;
+/** Mass flow in M_sun yr^-1 to g s^-1. */
+export const msunYrToGs = (msunYr: number): number => (msunYr * M_SUN_CGS) / YEAR_CGS;

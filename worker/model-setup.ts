@@ -5,10 +5,11 @@
  */
 import { DisksweepError } from '../shared/errors.js';
 import type { ModelParams } from '../shared/model-params.js';
-import { auToCm, daysToS, lsunToErgS, msunToG, myrToS, rsunToCm, yrToS } from '../shared/units.js';
+import { auToCm, daysToS, lsunToErgS, msunToG, msunYrToGs, myrToS, rsunToCm, yrToS } from '../shared/units.js';
 import { fixedColumnActiveLayer, uniformActiveLayer, type ActiveColumn } from './kernels/disk/active-layer.js';
 import type { EvolveSetup, InfallSetup } from './kernels/disk/evolve.js';
 import { makeLogGrid, type DiskGrid } from './kernels/disk/grid.js';
+import type { WindSetup } from './kernels/disk/winds/wind-sink.js';
 import { centrifugalRadius, shuInfallRate } from './kernels/disk/infall.js';
 import { constantOpacity } from './kernels/disk/opacity.js';
 import { SOUND_SPEED2_PER_K, irradiationTemperature4 } from './kernels/disk/thermal-structure.js';
@@ -81,7 +82,7 @@ export function ionizationOptionsFromParams(p: ModelParams, nCells: number): Ion
   return {
     nCells,
     sources: {
-      lxErgS: p.lx_erg_s,
+      lxErgS: xrayLuminosity(p),
       xrayFit: prepareXrayFit(p.xray_spectrum === '3kev' ? XRAY_FIT_3KEV : XRAY_FIT_5KEV),
       zetaCr: p.zeta_cr_s,
       fuvColumn: p.sigma_fuv_face_g_cm2,
@@ -103,6 +104,22 @@ export function ionizationOptionsFromParams(p: ModelParams, nCells: number): Ion
     refreshTolerance: p.ion_refresh_tol,
     activityTemperature: p.activity_temperature === 'midplane' ? 'midplane' : 'quiescent',
   };
+}
+
+/** L_X, erg s^-1: fixed, or a ratio of the photospheric luminosity. Shared by winds and ionization. */
+export function xrayLuminosity(p: ModelParams): number {
+  return p.lx_scaling === 'l_phot' ? p.lx_over_lphot * lsunToErgS(p.l_phot_lsun) : p.lx_erg_s;
+}
+
+/** The winds that are on (scale or rate above zero), in cgs; null when none is. */
+export function windsFromParams(p: ModelParams): WindSetup | null {
+  const winds: WindSetup = {
+    xray: p.xray_wind_scale > 0 ? { lx: xrayLuminosity(p), scale: p.xray_wind_scale } : null,
+    euv: p.euv_wind_scale > 0 ? { phi: p.phi_euv_s, scale: p.euv_wind_scale } : null,
+    fuv: p.fuv_wind_mdot_msun_yr > 0 ? { mdot: msunYrToGs(p.fuv_wind_mdot_msun_yr), temperatureK: p.t_fuv_k } : null,
+    cavityColumn: p.n_h_cavity_cm2,
+  };
+  return winds.xray === null && winds.euv === null && winds.fuv === null ? null : winds;
 }
 
 function activeColumnFromParams(p: ModelParams, nCells: number): ActiveColumn {
@@ -127,9 +144,9 @@ export function setupModel(p: ModelParams): ModelSetup {
     p.initial_state === 'disk'
       ? lbpInitialProfile(grid, msunToG(p.m_disk_msun), auToCm(p.r1_au), p.gamma_lbp)
       : new Float64Array(grid.n);
-  const luminosity = lsunToErgS(p.l_star_lsun);
+  const lPhot = lsunToErgS(p.l_phot_lsun);
   const floor4 = p.t_floor_k ** 4;
-  const baseTemperature4 = grid.centers.map((r) => irradiationTemperature4(r, luminosity) + floor4);
+  const baseTemperature4 = grid.centers.map((r) => irradiationTemperature4(r, lPhot) + floor4);
   const activeColumn = activeColumnFromParams(p, grid.n);
 
   const tEnd = myrToS(p.t_end_myr);
@@ -160,6 +177,8 @@ export function setupModel(p: ModelParams): ModelSetup {
     eventTimes: [...checkpointTimes, ...averageStartTimes, ...seriesTimes],
     infall,
     spin: { k2: p.k2_star, rStar: rsunToCm(p.r_star_rsun), period: daysToS(p.p_star_days) },
+    winds: windsFromParams(p),
+    luminosity: { lPhot, accretion: p.accretion_luminosity === 'on', rStar: rsunToCm(p.r_star_rsun), floor4 },
     // A tenth of a year is far below any viscous time on the grid; the step doubles from there.
     initialDt: yrToS(0.1),
   };

@@ -12,8 +12,8 @@ import {
   type ModelStatus,
   type ScalarRecord,
 } from '../shared/model-result.js';
-import { AU_CGS, G_CGS } from '../shared/constants.js';
-import { cmToAu, gToMsun, gsToMsunYr, sToMyr } from '../shared/units.js';
+import { AU_CGS, G_CGS, L_SUN_CGS } from '../shared/constants.js';
+import { cmToAu, gToMsun, gsToMsunYr, msunToG, msunYrToGs, sToMyr } from '../shared/units.js';
 import { massRadii } from './kernels/disk/disk-diagnostics.js';
 import { angularMomentumRemoved, budgetErrors, evolveDisk, type DiskState } from './kernels/disk/evolve.js';
 import type { DiskGrid } from './kernels/disk/grid.js';
@@ -49,11 +49,15 @@ export function runValidatedModel(p: ModelParams): ModelResult {
   const seriesRows: number[][] = [];
   const averageStartMass = new Map<number, number>();
   let tSplit: number | null = null;
+  let tDiskEnd: number | null = null;
+  let cavityOpen: { t: number; radius: number } | null = null;
   let qMinRun = Infinity;
   let maxRatio = 0;
   let fragmentation = false;
   const outbursts = new OutburstTracker(MDOT_AVERAGE_WINDOW_S, OUTBURST_FACTOR);
   const cell1au = cellHolding(evolve.grid, AU_CGS);
+  const diskEndMass = msunToG(p.disk_end_mass_msun);
+  const diskEndMdot = msunYrToGs(p.disk_end_mdot_msun_yr);
 
   const outcome = evolveDisk(evolve, {
     onStep(s) {
@@ -64,6 +68,8 @@ export function runValidatedModel(p: ModelParams): ModelResult {
       if (ratio > maxRatio) maxRatio = ratio;
       const afterInfall = tInfallEnd === null || s.t >= tInfallEnd;
       if (tSplit === null && afterInfall && massShare(s) >= p.f_mass_star && spinShare(s) <= p.f_j_disk_max) tSplit = s.t;
+      if (tDiskEnd === null && afterInfall && (s.mDisk < diskEndMass || s.mdotStar < diskEndMdot)) tDiskEnd = s.t;
+      if (cavityOpen === null && afterInfall && s.cavity.open) cavityOpen = { t: s.t, radius: s.cavity.radius };
     },
     onEvent(s) {
       if (averageStartTimes.includes(s.t)) averageStartMass.set(s.t, massToStar(s));
@@ -88,6 +94,8 @@ export function runValidatedModel(p: ModelParams): ModelResult {
   }
   const b = s.budget;
   const split = tSplit as number | null;
+  const diskEnd = tDiskEnd as number | null;
+  const cavity = cavityOpen as { t: number; radius: number } | null;
   const bursts = outbursts.result();
   const scalars: ScalarRecord = {
     t_infall_end_myr: tInfallEnd === null ? null : sToMyr(tInfallEnd),
@@ -114,6 +122,15 @@ export function runValidatedModel(p: ModelParams): ModelResult {
     n_outbursts: bursts.count,
     m_outbursts_msun: gToMsun(bursts.mass),
     t_first_outburst_myr: bursts.firstStart === null ? null : sToMyr(bursts.firstStart),
+    disk_lifetime_myr: diskEnd === null ? null : sToMyr(diskEnd),
+    disk_lifetime_after_infall_myr: diskEnd === null ? null : sToMyr(diskEnd - (tInfallEnd ?? 0)),
+    t_cavity_open_myr: cavity === null ? null : sToMyr(cavity.t),
+    r_cavity_open_au: cavity === null ? null : cmToAu(cavity.radius),
+    m_wind_msun: gToMsun(b.massWind),
+    m_wind_xray_msun: gToMsun(b.massWindXray),
+    m_wind_euv_msun: gToMsun(b.massWindEuv),
+    m_wind_fuv_msun: gToMsun(b.massWindFuv),
+    j_wind_g_cm2_s: b.jWind,
   };
   return {
     model_version: MODEL_VERSION,
@@ -176,6 +193,11 @@ function checkpointRecord(
     r_dead_out_au: finiteOrNull(cmToAu(dead.outerEdge)),
     m_dead_msun: gToMsun(dead.deadMass),
     sigma_active_1au_g_cm2: cell1au < 0 ? null : s.sigmaActive[cell1au],
+    l_star_lsun: s.lStar / L_SUN_CGS,
+    l_acc_lsun: s.lAcc / L_SUN_CGS,
+    m_wind_msun: gToMsun(s.budget.massWind),
+    mdot_wind_msun_yr: gsToMsunYr(s.mdotWind),
+    r_cavity_au: s.cavity.open ? cmToAu(s.cavity.radius) : null,
     active_share_1au: activeShare(grid, s, cell1au, alphaActive),
   };
 }

@@ -26,10 +26,10 @@ export function formatModelReport(p: ModelParams, r: ModelResult): string {
   out.push('');
   out.push(
     table(
-      ['t [Myr]', 'M_* [Msun]', 'M_disk [Msun]', 'Mdot_* [Msun/yr]', '<Mdot_*>1e4yr', 'J_spin share', 'r50 [AU]', 'r90 [AU]', 'Q_min'],
+      ['t [Myr]', 'M_* [Msun]', 'M_disk [Msun]', 'Mdot_* [Msun/yr]', '<Mdot_*>1e4yr', 'J_spin share', 'r50 [AU]', 'r90 [AU]', 'Q_min', 'L_* [Lsun]', 'Mdot_wind'],
       r.checkpoints.map((c) => [
         num(c.t_myr), num(c.m_star_msun, 4), num(c.m_disk_msun), num(c.mdot_star_msun_yr), num(c.mdot_star_avg_msun_yr),
-        num(c.spin_j_share), num(c.r50_au), num(c.r90_au), num(c.q_min),
+        num(c.spin_j_share), num(c.r50_au), num(c.r90_au), num(c.q_min), num(c.l_star_lsun), num(c.mdot_wind_msun_yr),
       ]),
     ),
   );
@@ -43,13 +43,21 @@ export function formatModelReport(p: ModelParams, r: ModelResult): string {
   );
   if (s.t_infall_end_myr !== null) out.push(`infall ended at ${num(s.t_infall_end_myr)} Myr`);
   out.push(
+    `disk lifetime (M_disk < ${p.disk_end_mass_msun} Msun or Mdot_* < ${p.disk_end_mdot_msun_yr} Msun/yr): ` +
+      (s.disk_lifetime_myr === null
+        ? `not ended by ${p.t_end_myr} Myr`
+        : `ended at ${num(s.disk_lifetime_myr)} Myr (${num(s.disk_lifetime_after_infall_myr)} Myr after infall ended)`) +
+      `; inner cavity: ${s.t_cavity_open_myr === null ? 'never opened' : `opened at ${num(s.t_cavity_open_myr)} Myr, rim at ${num(s.r_cavity_open_au)} AU`}`,
+  );
+  out.push(
     `mass budget [Msun]: infall ${num(s.m_infall_msun)}, accreted through R_in ${num(s.m_accreted_msun)}, ` +
-      `lost through R_out ${num(s.m_lost_msun)}; closure error ${num(s.mass_budget_rel_err)}`,
+      `lost through R_out ${num(s.m_lost_msun)}, to winds ${num(s.m_wind_msun)} (X-ray ${num(s.m_wind_xray_msun)}, ` +
+      `EUV ${num(s.m_wind_euv_msun)}, external FUV ${num(s.m_wind_fuv_msun)}); closure error ${num(s.mass_budget_rel_err)}`,
   );
   out.push(
     `angular momentum [g cm^2/s]: infall ${num(s.j_infall_g_cm2_s)}, through R_in ${num(s.j_accreted_g_cm2_s)} ` +
       `(removed from the star ${num(s.j_removed_g_cm2_s)}), through R_out ${num(s.j_lost_g_cm2_s)}, ` +
-      `star growth ${num(s.j_rescale_g_cm2_s)}; closure error ${num(s.j_budget_rel_err)}`,
+      `to winds ${num(s.j_wind_g_cm2_s)}, star growth ${num(s.j_rescale_g_cm2_s)}; closure error ${num(s.j_budget_rel_err)}`,
   );
   const last = r.checkpoints.at(-1);
   if (last !== undefined) {

@@ -23,6 +23,7 @@ const ASTROPY_UNITS: Readonly<Record<string, string | null>> = {
   'g cm^2 s^-1': 'g cm2 / s',
   'cm^2 g^-1': 'cm2 / g',
   's^-1': '1 / s',
+  'cm^-2': '1 / cm2',
 };
 
 export function astropyUnit(unit: string): string | null {

@@ -10,6 +10,8 @@
  *   ionization       the default model with active_layer = ionization (models/s/core; status), a variant without
  *                    the thermal switch, the share of model time spent in the ionization kernel (replay), and the
  *                    refresh-tolerance accuracy check on the default ionization model (ionization-bench.ts)
+ *   winds            what the photoevaporation modules cost per model (default X-ray wind; all winds on a disk),
+ *                    timed on the model's own states (winds-bench.ts)
  *   sqlite_ingest, sweep_parallel_efficiency, noop_overhead, orchestrator_rss
  *                    the store and the sweep machinery (system-bench.ts)
  *   multi_host       a Redis sweep with its two workers in two network namespaces against both on loopback:
@@ -35,6 +37,7 @@ import { plotsBenchExtra } from './plots-bench.js';
 import { benchQuery } from './query-bench.js';
 import { median, progress, quantile, sig } from './stats.js';
 import { benchSystem } from './system-bench.js';
+import { benchWinds } from './winds-bench.js';
 
 const GOALS = { default_model_ms_target: 100, js_over_c_target: 1.5 } as const;
 /** Relative agreement C and JS must reach on every number of the check solve. */
@@ -194,6 +197,16 @@ async function main(): Promise<void> {
     refresh_accuracy_disk: benchRefreshAccuracy({ initial_state: 'disk', active_layer: 'ionization', kappa_cm2_g: 0 }),
   };
 
+  const winds = {
+    what: 'wind work per model (rates, cavity, predictor solve, sink) timed on the run\'s own states; share of the model median',
+    default_infall: benchWinds('winds_default_infall', {}, 200),
+    disk_all_winds: benchWinds(
+      'winds_disk_all',
+      { initial_state: 'disk', euv_wind_scale: 1, fuv_wind_mdot_msun_yr: 1e-8, t_end_myr: 5 },
+      200,
+    ),
+  };
+
   const system = await benchSystem();
   const multiHost = await benchMultiHost();
   // DISKSWEEP_BENCH_QUERY_POINTS shrinks the synthetic database for a quick look (the goals are for 10^6).
@@ -206,6 +219,7 @@ async function main(): Promise<void> {
     default_infall: defaultInfall,
     validation_disk: validationDisk,
     ionization,
+    winds,
     implicit_step: {
       what: 'viscousStep: theta = 1, zero-torque edges, lagged nu; row assembly + Thomas solve; median over batches',
       ...implicit,

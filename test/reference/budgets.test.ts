@@ -11,7 +11,9 @@
  *
  * Each case is checked twice: through `runModel` (the result's own mass_budget_rel_err, j_budget_rel_err) and
  * through the same setup driven by `evolveDisk`, where the test books the edge angular momentum itself from
- * the per-step mass flows, sums J_disk from Σ itself, and closes the star's mass budget as well.
+ * the per-step mass flows, sums J_disk from Σ itself, and closes the star's mass budget as well. The default
+ * X-ray wind is on in every case (and the EUV and external FUV winds in the last ones): the test books the
+ * angular momentum the winds carried itself, from the mass each cell lost and that cell's j_i.
  */
 import { describe, expect, it } from 'vitest';
 import { G_CGS } from '../../shared/constants.js';
@@ -54,6 +56,19 @@ const CASES: readonly BudgetCase[] = [
     name: 'infall start, growing star, ionization dead zone, no thermal switch',
     params: { initial_state: 'infall', active_layer: 'ionization', thermal_ionization: 'none' },
   },
+  // Every wind at once, strong enough that an inner cavity opens and the outer disk is eroded within the run.
+  {
+    name: 'disk start, growing star, X-ray + EUV + external FUV winds, cavity opens',
+    params: {
+      initial_state: 'disk', m_disk_msun: 0.01, r1_au: 10, xray_wind_scale: 3, euv_wind_scale: 1, phi_euv_s: 1e42,
+      fuv_wind_mdot_msun_yr: 1e-8, t_end_myr: 3, checkpoints_myr: [0.5, 1, 3],
+    },
+  },
+  {
+    // θ = ½ (the wind sink stays fully implicit); the external wind clears the whole disk within the run.
+    name: 'disk start, fixed star, theta = 1/2, all winds',
+    params: { initial_state: 'disk', star_mass: 'fixed', theta: 0.5, euv_wind_scale: 1, fuv_wind_mdot_msun_yr: 1e-7 },
+  },
 ];
 
 /** J_disk summed here from Σ with j_i = (G M_* R_i)^{1/2}, the same j the transport books (disk-diagnostics.ts). */
@@ -81,6 +96,8 @@ interface Closure {
   kernel: { mass: number; angularMomentum: number };
   /** The test's own closures. */
   diskMass: number;
+  /** The per-wind lines add up to the total. */
+  windMass: number;
   starMass: number;
   /** Growing star only. */
   totalMass: number | null;
@@ -102,11 +119,14 @@ function closeBudgetsIndependently(params: Record<string, unknown>): Closure {
   let prevMStar = setup.mStar0;
   let jAccreted = 0;
   let jLost = 0;
+  let jWind = 0;
   let worstJ = 0;
   const onStep = (s: DiskState): void => {
     const b = s.budget;
     jAccreted += (b.massAccreted - prevAccreted) * Math.sqrt(G_CGS * prevMStar * rIn);
     jLost += (b.massLost - prevLost) * Math.sqrt(G_CGS * prevMStar * rOut);
+    // Wind: each cell's loss in this step with that cell's j_i at the M_* the step used.
+    for (let i = 0; i < grid.n; i++) jWind += s.windLoss[i] * Math.sqrt(G_CGS * prevMStar * grid.centers[i]);
     [prevAccreted, prevLost, prevMStar] = [b.massAccreted, b.massLost, s.mStar];
     // J_disk the state reports is the sum over Σ (not a running total).
     worstJ = Math.max(worstJ, relDiff(s.jDisk, angularMomentumOf(grid, s.sigma, s.mStar)));
@@ -122,17 +142,19 @@ function closeBudgetsIndependently(params: Record<string, unknown>): Closure {
   const starExpected = setup.mStar0 + (setup.starGrows ? b.massAccreted + b.massInfallStar : 0);
   // Everything there is, for a growing star: star + disk + lost = seed (or initial star) + initial disk + infall.
   const totalIn = setup.mStar0 + m0 + infallTotal;
-  const jExpected = j0 + b.jInfallDisk + b.jRescale - jAccreted - jLost;
+  const jExpected = j0 + b.jInfallDisk + b.jRescale - jAccreted - jLost - jWind;
   return {
     status: outcome.status,
     steps: s.steps,
     kernel: budgetErrors(s),
-    diskMass: Math.abs(mDisk - (massIn - b.massAccreted - b.massLost)) / massIn,
+    diskMass: Math.abs(mDisk - (massIn - b.massAccreted - b.massLost - b.massWind)) / massIn,
+    windMass: Math.abs(b.massWind - (b.massWindXray + b.massWindEuv + b.massWindFuv)) / Math.max(b.massWind, 1e-300),
     starMass: Math.abs(s.mStar - starExpected) / s.mStar,
-    totalMass: setup.starGrows ? Math.abs(s.mStar + mDisk + b.massLost - totalIn) / totalIn : null,
+    totalMass: setup.starGrows ? Math.abs(s.mStar + mDisk + b.massLost + b.massWind - totalIn) / totalIn : null,
     edgeJ: Math.max(
       relDiff(b.jAccreted, jAccreted),
       Math.abs(b.jLost - jLost) / jAccreted,
+      Math.abs(b.jWind - jWind) / jAccreted,
       worstJ,
     ),
     diskJ: Math.abs(jDisk - jExpected) / (j0 + b.jInfallDisk + Math.abs(b.jRescale)),
@@ -160,6 +182,7 @@ describe('mass and angular-momentum budgets of full runs close to round-off', ()
         expect(r.kernel.mass).toBeLessThanOrEqual(TOL);
         expect(r.kernel.angularMomentum).toBeLessThanOrEqual(TOL);
         expect(r.diskMass).toBeLessThanOrEqual(TOL);
+        expect(r.windMass).toBeLessThanOrEqual(TOL);
         expect(r.starMass).toBeLessThanOrEqual(TOL);
         if (r.totalMass !== null) expect(r.totalMass).toBeLessThanOrEqual(TOL);
         expect(r.edgeJ).toBeLessThanOrEqual(TOL);

@@ -76,7 +76,9 @@ describe('a disk with a dead zone (ionization-based transport)', () => {
   });
 
   it('probe and model agree on Σ_a for the same column', () => {
-    const { params, grid, out } = finalState({ active_layer: 'ionization', ion_refresh_tol: 0 });
+    // With a fixed irradiating luminosity: the coefficient pass evaluates Σ_a at the temperature it starts from
+    // (the last pass's), which differs from the state's T when L_acc has changed since.
+    const { params, grid, out } = finalState({ active_layer: 'ionization', ion_refresh_tol: 0, accretion_luminosity: 'off' });
     const s = out.state;
     const cells = [...s.sigma.keys()].filter((i) => s.sigma[i] > 1 && grid.centers[i] < 30 * AU_CGS);
     expect(cells.some((i) => s.sigmaActive[i] < s.sigma[i])).toBe(true);

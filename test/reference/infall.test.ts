@@ -159,9 +159,10 @@ describe('a full infall run gathers mass at the Shu rate until the core is used 
   // Hand arithmetic: t_infall = M_core / Ṁ = 1.98840987e33 / 9.6702788445e19 s = 6.51572800e5 yr.
   const T_INFALL_BY_HAND = 6.515728e5 * YEAR_CGS;
 
-  it('has star + disk + lost - seed = Mdot t before t_infall_end and = M_core after (to 1e-10)', () => {
+  it('has star + disk + lost + wind - seed = Mdot t before t_infall_end and = M_core after (to 1e-10)', () => {
     // Mass delivered by a constant Shu rate is exactly Ṁ t; the disk and star budgets close to round-off,
-    // so the sum holds to round-off too. 1e-10: common practice, no source (measured ≤ 4.1e-15).
+    // so the sum holds to round-off too. 1e-10: common practice, no source (measured ≤ 4.1e-15). The default
+    // X-ray wind is on: what it removed is part of the sum.
     const setup = setupModel(parseModelParams(params));
     const mdot = setup.evolve.infall?.mdot ?? NaN;
     const tEnd = setup.evolve.infall?.tEnd ?? NaN;
@@ -173,7 +174,7 @@ describe('a full infall run gathers mass at the Shu rate until the core is used 
       onEvent(s) {
         if (!setup.checkpointTimes.includes(s.t)) return;
         seen.push(s.t);
-        const gathered = s.mStar - mSeed + s.mDisk + s.budget.massLost;
+        const gathered = s.mStar - mSeed + s.mDisk + s.budget.massLost + s.budget.massWind;
         const expected = s.t <= tEnd ? mdot * s.t : mCore;
         expect(Math.abs(gathered / expected - 1)).toBeLessThan(1e-10);
       },
@@ -189,7 +190,8 @@ describe('a full infall run gathers mass at the Shu rate until the core is used 
     const s = result.scalars;
     expect(Math.abs(num(s.m_infall_msun) / params.m_core_msun - 1)).toBeLessThan(1e-10);
     expect(Math.abs((num(s.t_infall_end_myr) * MYR_CGS) / T_INFALL_BY_HAND - 1)).toBeLessThan(1e-7);
-    const total = num(s.m_star_end_msun) + num(s.m_disk_end_msun) + num(s.m_lost_msun);
+    expect(num(s.m_wind_msun)).toBeGreaterThan(0);
+    const total = num(s.m_star_end_msun) + num(s.m_disk_end_msun) + num(s.m_lost_msun) + num(s.m_wind_msun);
     expect(Math.abs(total / (params.m_seed_msun + params.m_core_msun) - 1)).toBeLessThan(1e-10);
     // Checkpoints do not record M_lost, but they record J_lost, and every gram that left R_out carried
     // (G M_* R_out)^{1/2} with M_seed ≤ M_* ≤ M_*(t) (zero torque: the outer flow is never inward). So
@@ -198,7 +200,7 @@ describe('a full infall run gathers mass at the Shu rate until the core is used 
     const mdotMsunMyr = (SHU_MDOT_10K_BY_HAND * MYR_CGS) / M_SUN_CGS;
     const rOut = 1000 * AU_CGS;
     for (const cp of result.checkpoints) {
-      const gathered = num(cp.m_star_msun) + num(cp.m_disk_msun) - params.m_seed_msun;
+      const gathered = num(cp.m_star_msun) + num(cp.m_disk_msun) + num(cp.m_wind_msun) - params.m_seed_msun;
       const expected = Math.min(mdotMsunMyr * num(cp.t_myr), params.m_core_msun);
       const jLost = num(cp.j_lost_g_cm2_s);
       const lostLow = jLost / Math.sqrt(G_CGS * msunToG(num(cp.m_star_msun)) * rOut) / M_SUN_CGS;

@@ -129,10 +129,10 @@ describe('evaluateTargets', () => {
     expect([...w.pointIndex]).toEqual(rows.filter((r) => r.m_disk_msun < 0.02).map((r) => r.point_index));
     expect(w.counts.selected).toBe(3);
     // The same name with a time is the checkpoint output (disk mass at 1 Myr), not the parameter.
-    const atOne = evaluateTargets(store, { targets: [], where: 'm_disk_msun@1myr < m_disk_msun / 2' });
+    const atOne = evaluateTargets(store, { targets: [], where: 'm_disk_msun@1myr < m_disk_msun / 4' });
     expect(atOne.counts.selected).toBeGreaterThan(0);
     expect(atOne.counts.selected).toBeLessThan(9);
-    expect([...atOne.pointIndex]).toEqual(rows.filter((r) => r.m_disk_1 < r.m_disk_msun / 2).map((r) => r.point_index));
+    expect([...atOne.pointIndex]).toEqual(rows.filter((r) => r.m_disk_1 < r.m_disk_msun / 4).map((r) => r.point_index));
   });
 
   it('countTargets gives the same counts without collecting the points', () => {

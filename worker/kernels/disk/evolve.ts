@@ -10,6 +10,18 @@
  * deposit itself is exact, so it needs no step control; the plain measure would call every cell that infall
  * reaches for the first time an infinite change. Steps grow by at most 2x, shrink toward the target, and are
  * redone when they overshoot it 4x. No division by Σ anywhere.
+ *
+ * Winds (winds/wind-sink.ts) are a linear sink inside the implicit solve, and the mass each cell lost is known
+ * exactly from the solution, so the measure treats a removal r_i like a deposit: the transport's part is
+ * ΔΣ_i − a_i + r_i, and the wind's capacity w_i = R_i dt/A_i joins the denominator as the deposit does
+ * (relative to the gas that was there, arrived, or could have left). A cell the wind empties is then no change
+ * to control. Cells where the wind could take all the step would leave in them (R dt ≥ M*), or that it eats
+ * below the floor, are skipped: they hold what the step's inflow left behind, an amount that scales with dt
+ * itself, and following it would chase the step size (a gap would take steps of hours). Inside an open inner
+ * cavity (winds/inner-cavity.ts) Σ is not step-controlled: the gas there, by definition too thin to shade the
+ * rim, is what leaks from the rim to the star, and following its relative changes (tiny Σ fed by a steep rim)
+ * would take steps of hours; the implicit step keeps it stable and positive and the budgets stay exact. The star's luminosity
+ * for irradiation (stellar-luminosity.ts) follows the accretion rate of the last accepted step (lagged one step).
  */
 import { G_CGS, MYR_CGS } from '../../../shared/constants.js';
 import type { ModelStatus } from '../../../shared/model-result.js';
@@ -17,11 +29,14 @@ import { diskAngularMomentum, diskMass } from './disk-diagnostics.js';
 import type { DiskGrid } from './grid.js';
 import { centrifugalRadius, depositInfall } from './infall.js';
 import { spinAngularMomentum } from './stellar-spin.js';
+import { accretionLuminosity, fillBaseTemperature4, irradiationPerLsun, type LuminositySetup } from './stellar-luminosity.js';
 import type { TransportPhysics, TransportSummary } from './transport-coefficients.js';
 import { computeTransportCoefficients } from './transport-coefficients.js';
 import type { EdgeCondition } from './viscous-transport.js';
 import { linearizeFlux, perturbSigma } from './flux-linearization.js';
 import { makeTransportWorkspace, viscousStep } from './viscous-transport.js';
+import { advanceCavity, findInnerCavity, type InnerCavity } from './winds/inner-cavity.js';
+import { cavityCheckRadius, computeWindRates, fillSinkDt, makeWindWorkspace, windRemoval, type WindSetup } from './winds/wind-sink.js';
 
 export interface InfallSetup {
   /** Shu rate, g s^-1. */
@@ -71,6 +86,10 @@ export interface EvolveSetup {
   /** First step, s. */
   readonly initialDt: number;
   readonly validationEdges?: ValidationEdges;
+  /** Photoevaporative winds; absent or null for none. */
+  readonly winds?: WindSetup | null;
+  /** Irradiation that follows L_phot + L_acc; absent: `transport.baseTemperature4` stays as given. */
+  readonly luminosity?: LuminositySetup;
 }
 
 /** Running totals since t = 0, cgs (g, g cm^2 s^-1). */
@@ -85,6 +104,12 @@ export interface Budget {
   jInfallStar: number;
   /** Change of J_disk from the growth of M_* at fixed cell masses (every j_i ∝ M_*^{1/2}). */
   jRescale: number;
+  /** Removed by photoevaporative winds, in all and per wind, with the angular momentum it carried. */
+  massWind: number;
+  massWindXray: number;
+  massWindEuv: number;
+  massWindFuv: number;
+  jWind: number;
 }
 
 /** The state an observer sees; valid only during the callback (arrays are reused). */
@@ -105,6 +130,14 @@ export interface DiskState {
   mdotStar: number;
   /** Toomre Q minimum and fragmentation flag from the last coefficient pass. */
   transport: TransportSummary;
+  /** Irradiating luminosity L_phot + L_acc for the next step and its accretion part, erg s^-1. */
+  lStar: number;
+  lAcc: number;
+  /** Mass-loss rate of the winds over the last step, g s^-1, and the mass each cell lost to them, g. */
+  mdotWind: number;
+  readonly windLoss: Float64Array;
+  /** Inner cavity of the current state (winds/inner-cavity.ts; closed when there are no winds). */
+  cavity: InnerCavity;
   readonly mDisk0: number;
   readonly jDisk0: number;
   readonly jSpin0: number;
@@ -134,9 +167,9 @@ export function angularMomentumRemoved(state: DiskState): number {
 export function budgetErrors(state: DiskState): { mass: number; angularMomentum: number } {
   const b = state.budget;
   const massIn = state.mDisk0 + b.massInfallDisk;
-  const massErr = state.mDisk - (massIn - b.massAccreted - b.massLost);
+  const massErr = state.mDisk - (massIn - b.massAccreted - b.massLost - b.massWind);
   const jScale = state.jDisk0 + b.jInfallDisk + Math.abs(b.jRescale);
-  const jErr = state.jDisk - (state.jDisk0 + b.jInfallDisk + b.jRescale - b.jAccreted - b.jLost);
+  const jErr = state.jDisk - (state.jDisk0 + b.jInfallDisk + b.jRescale - b.jAccreted - b.jLost - b.jWind);
   return {
     mass: massIn > 0 ? Math.abs(massErr) / massIn : 0,
     angularMomentum: jScale > 0 ? Math.abs(jErr) / jScale : 0,
@@ -152,6 +185,13 @@ function sortedEvents(setup: EvolveSetup): number[] {
   const times = [...setup.eventTimes, setup.tEnd];
   if (setup.infall !== null && setup.infall.tEnd < setup.tEnd) times.push(setup.infall.tEnd);
   return [...new Set(times.filter((t) => t > 0 && t <= setup.tEnd))].sort((a, b) => a - b);
+}
+
+/** Number of cells whose centre lies inside radius r (cm). */
+function cellsInside(grid: DiskGrid, r: number): number {
+  let k = 0;
+  while (k < grid.n && grid.centers[k] < r) k++;
+  return k;
 }
 
 function fillOmega(grid: DiskGrid, mStar: number, omega: Float64Array): void {
@@ -176,6 +216,15 @@ export function evolveDisk(setup: EvolveSetup, observer: EvolveObserver = {}): E
     ? { sigma: new Float64Array(n), nu: new Float64Array(n), temperature: new Float64Array(n), nuImplicit: new Float64Array(n), offset: new Float64Array(n) }
     : null;
   const events = sortedEvents(setup);
+  const winds = setup.winds ?? null;
+  const windWs = winds === null ? null : makeWindWorkspace(grid);
+  const windLoss = windWs === null ? new Float64Array(n) : windWs.removed;
+  // Irradiation that follows the star: the run owns its copy of T_irr^4 + T_floor^4 (the setup stays untouched).
+  const lum = setup.luminosity;
+  const irrPerLsun = lum === undefined ? null : irradiationPerLsun(grid);
+  const physics: TransportPhysics =
+    lum === undefined ? transport : { ...transport, baseTemperature4: new Float64Array(n) };
+  if (lum !== undefined && irrPerLsun !== null) fillBaseTemperature4(irrPerLsun, lum.lPhot, lum.floor4, physics.baseTemperature4);
 
   const mDisk0 = diskMass(grid, sigma);
   const jDisk0 = diskAngularMomentum(grid, sigma, setup.mStar0);
@@ -184,13 +233,22 @@ export function evolveDisk(setup: EvolveSetup, observer: EvolveObserver = {}): E
   const state: DiskState = {
     t: 0, steps: 0, rejectedSteps: 0, sigma, temperature: fields.temperature, nu: fields.nu, sigmaActive: fields.sigmaActive,
     mStar: setup.mStar0, mDisk: mDisk0, jDisk: jDisk0, jSpin: jSpin0, mdotStar: 0,
-    transport: computeTransportCoefficients(grid, sigma, omega, transport, fields, 0),
+    transport: computeTransportCoefficients(grid, sigma, omega, physics, fields, 0),
+    lStar: lum === undefined ? 0 : lum.lPhot, lAcc: 0, mdotWind: 0, windLoss,
+    cavity: { open: false, radius: grid.edges[0] },
     mDisk0, jDisk0, jSpin0,
     budget: {
       massAccreted: 0, massLost: 0, massInfallDisk: 0, massInfallStar: 0,
       jAccreted: 0, jLost: 0, jInfallDisk: 0, jInfallStar: 0, jRescale: 0,
+      massWind: 0, massWindXray: 0, massWindEuv: 0, massWindFuv: 0, jWind: 0,
     },
   };
+  const cavityNow = (): InnerCavity => {
+    const check = winds === null ? null : cavityCheckRadius(winds, state.mStar);
+    if (winds === null || check === null) return state.cavity;
+    return advanceCavity(state.cavity, findInnerCavity(grid, sigma, fields.temperature, omega, winds.cavityColumn, check));
+  };
+  state.cavity = cavityNow();
   const fail = (status: ModelStatus, reason: string): EvolveOutcome => ({ status, reason, state });
 
   let dt = setup.initialDt;
@@ -207,6 +265,8 @@ export function evolveDisk(setup: EvolveSetup, observer: EvolveObserver = {}): E
     // relative change to control (its first gas is exact deposit), so its first step is measured as 0.
     let sigmaMaxOld = 0;
     for (let i = 0; i < n; i++) if (sigma[i] > sigmaMaxOld) sigmaMaxOld = sigma[i];
+    if (winds !== null && windWs !== null) computeWindRates(winds, grid, sigma, state.mStar, state.cavity, windWs);
+    const firstControlled = state.cavity.open ? cellsInside(grid, state.cavity.radius) : 0;
     let accepted = false;
     for (let retry = 0; retry <= MAX_RETRIES && !accepted; retry++) {
       const landing = dt >= (tEvent - t) * (1 - 1e-12);
@@ -228,19 +288,27 @@ export function evolveDisk(setup: EvolveSetup, observer: EvolveObserver = {}): E
       if (lin !== null && retry === 0) {
         perturbSigma(sigma, lin.sigma);
         lin.temperature.set(fields.temperature);
-        computeTransportCoefficients(grid, lin.sigma, omega, transport, { nu: lin.nu, temperature: lin.temperature, derivativeProbe: true }, t);
+        computeTransportCoefficients(grid, lin.sigma, omega, physics, { nu: lin.nu, temperature: lin.temperature, derivativeProbe: true }, t);
         linearizeFlux(sigma, grid.sqrtCenters, fields.nu, lin.nu, lin.nuImplicit, lin.offset);
       }
-      const input = {
+      const withoutWinds = {
         grid, sigma, nuExplicit: fields.nu, nuImplicit: lin === null ? fields.nu : lin.nuImplicit, massSource: infallOn ? source : null,
         implicitOffset: lin === null ? null : lin.offset, dt: dtTry, theta, inner: edgeAt(edges?.inner), outer: edgeAt(edges?.outer),
       };
+      let sinkDt: Float64Array | null = null;
+      if (winds !== null && windWs !== null) {
+        // Predictor: the same step without winds gives each cell's mass M*_i for the sink rate R_i / M*_i.
+        viscousStep(withoutWinds, ws, sigmaNew);
+        sinkDt = fillSinkDt(winds, grid, sigmaNew, dtTry, windWs);
+      }
+      const input = { ...withoutWinds, sinkDt };
       let flows = viscousStep(input, ws, sigmaNew);
       for (let k = 0; k < setup.picardIterations; k++) {
         tempScratch.set(fields.temperature);
-        computeTransportCoefficients(grid, sigmaNew, omega, transport, { nu: nuNew, temperature: tempScratch }, t + dtTry, dtTry);
+        computeTransportCoefficients(grid, sigmaNew, omega, physics, { nu: nuNew, temperature: tempScratch }, t + dtTry, dtTry);
         flows = viscousStep({ ...input, nuImplicit: nuNew, implicitOffset: null }, ws, sigmaNew);
       }
+      const removal = winds !== null && windWs !== null ? windRemoval(winds, grid, sigmaNew, windWs) : null;
 
       // Change measure and validity of the new state.
       let finite = true;
@@ -257,18 +325,23 @@ export function evolveDisk(setup: EvolveSetup, observer: EvolveObserver = {}): E
         continue;
       }
       if (negative) {
+        // (A θ < 1 step can overshoot below zero; the wind sink, being implicit, cannot.)
         dt = dtTry * 0.5;
         state.rejectedSteps++;
         continue;
       }
       let change = 0;
       const floor = 1e-6 * sigmaMaxOld;
-      for (let i = 0; i < n && sigmaMaxOld > 0; i++) {
+      for (let i = firstControlled; i < n && sigmaMaxOld > 0; i++) {
+        // Wind-dominated cells, and those the wind eats below the floor, hold what this step's inflow left behind.
+        if (windWs !== null && (windWs.windDominated[i] === 1 || (windWs.capacity[i] > 0 && sigma[i] < floor && sigmaNew[i] < floor))) continue;
         const added = infallOn ? (dtTry * source[i]) / grid.area[i] : 0;
-        const denom = sigma[i] + added + floor;
+        const taken = removal !== null ? windLoss[i] / grid.area[i] : 0;
+        const capacity = windWs !== null ? windWs.capacity[i] : 0;
+        const denom = sigma[i] + added + capacity + floor;
         const net = Math.abs(sigmaNew[i] - sigma[i]);
         if (denom > 0) {
-          const c = Math.min(net, Math.abs(sigmaNew[i] - sigma[i] - added)) / denom;
+          const c = Math.min(net, Math.abs(sigmaNew[i] - sigma[i] - added + taken)) / denom;
           if (c > change) change = c;
         }
       }
@@ -299,6 +372,14 @@ export function evolveDisk(setup: EvolveSetup, observer: EvolveObserver = {}): E
         b.massInfallStar += toStar * dtTry;
         b.jInfallStar += jToStar * dtTry;
       }
+      if (removal !== null) {
+        b.massWind += removal.total;
+        b.massWindXray += removal.xray;
+        b.massWindEuv += removal.euv;
+        b.massWindFuv += removal.fuv;
+        b.jWind += removal.massSqrtR * gm;
+      }
+      state.mdotWind = removal === null ? 0 : removal.total / dtTry;
       sigma.set(sigmaNew);
       state.mdotStar = flows.mdotInner + toStar;
       const jDiskOld = diskAngularMomentum(grid, sigma, state.mStar);
@@ -318,7 +399,13 @@ export function evolveDisk(setup: EvolveSetup, observer: EvolveObserver = {}): E
     }
     if (!accepted) return fail('step_collapse', `no acceptable step after ${MAX_RETRIES} retries at t = ${t.toExponential(4)} s`);
 
-    state.transport = computeTransportCoefficients(grid, sigma, omega, transport, fields, state.t, dtTaken);
+    if (lum !== undefined && irrPerLsun !== null) {
+      state.lAcc = lum.accretion ? accretionLuminosity(state.mStar, state.mdotStar, lum.rStar, grid.edges[0]) : 0;
+      state.lStar = lum.lPhot + state.lAcc;
+      fillBaseTemperature4(irrPerLsun, state.lStar, lum.floor4, physics.baseTemperature4);
+    }
+    state.transport = computeTransportCoefficients(grid, sigma, omega, physics, fields, state.t, dtTaken);
+    state.cavity = cavityNow();
     observer.onStep?.(state);
     while (next < events.length && events[next] <= state.t) {
       observer.onEvent?.(state);

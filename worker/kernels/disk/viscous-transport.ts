@@ -58,6 +58,11 @@ export interface TransportStepInput {
   readonly implicitOffset?: Float64Array | null;
   /** Mass added per cell per unit time (infall, later minus winds), g s^-1; null for none. */
   readonly massSource: Float64Array | null;
+  /**
+   * A linear sink per cell as λ_i dt (dimensionless; winds), always fully implicit whatever θ, so it never makes
+   * Σ negative: row i gains A_i λ_i dt Σ'_i on its diagonal and the cell loses exactly that mass. Null for none.
+   */
+  readonly sinkDt?: Float64Array | null;
   readonly dt: number;
   readonly theta: number;
   readonly inner: EdgeCondition;
@@ -76,11 +81,12 @@ const THREE_PI = 3 * Math.PI;
 
 /**
  * Advance Σ by one θ-step into `sigmaOut` (which may not alias `sigma`) and return the boundary flows.
- * Row i reads: A_i Σ'_i − θ dt (Ṁ'_{i+1/2} − Ṁ'_{i−1/2}) = A_i Σ_i + (1−θ) dt (Ṁ_{i+1/2} − Ṁ_{i−1/2}) + dt S_i.
+ * Row i reads: A_i (1 + λ_i dt) Σ'_i − θ dt (Ṁ'_{i+1/2} − Ṁ'_{i−1/2}) = A_i Σ_i + (1−θ) dt (Ṁ_{i+1/2} − Ṁ_{i−1/2}) + dt S_i.
  */
 export function viscousStep(input: TransportStepInput, ws: TransportWorkspace, sigmaOut: Float64Array): BoundaryFlows {
   const { grid, sigma, nuExplicit, nuImplicit, massSource, dt, theta, inner, outer } = input;
   const offset = input.implicitOffset ?? null;
+  const sinkDt = input.sinkDt ?? null;
   const { n, area, sqrtCenters, edgeWeight: w } = grid;
   const { lower, diag, upper, rhs, scratch } = ws;
   const implicit = theta * dt * THREE_PI;
@@ -115,7 +121,7 @@ export function viscousStep(input: TransportStepInput, ws: TransportWorkspace, s
     const flowAbove = last ? explicitOuter : rhs[i + 1];
     lower[i] = -implicit * wBelow * cPrev;
     upper[i] = -implicit * wAbove * cNext;
-    diag[i] = area[i] + implicit * (wBelow + wAbove) * cCur;
+    diag[i] = (sinkDt === null ? area[i] : area[i] * (1 + sinkDt[i])) + implicit * (wBelow + wAbove) * cCur;
     let b = area[i] * sigma[i] + explicit * (flowAbove - flowBelow);
     if (offset !== null) {
       // The known part of the implicit flows, w (offset_{i+1} − offset_i) above minus the same below.
