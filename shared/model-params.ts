@@ -309,6 +309,13 @@ export const PARAMS = {
       'Add the accretion luminosity L_acc = G M_* Mdot_*/R_* (1 - R_*/R_in) to the irradiating luminosity ' +
       '(Gullbring et al. 1998), with R_* = r_star_rsun, R_in = r_in_au and Mdot_* of the previous step.',
   }),
+  l_acc_memory_yr: num({
+    unit: 'yr', default: 1000, min: 0, max: 1e6,
+    description:
+      'accretion_luminosity=on: L_acc in the irradiation relaxes toward its instantaneous value on this time ' +
+      '(0 = at once). It keeps a dead-zone edge set by the irradiation from flickering with its own accretion.',
+    source: 'numerical choice; shorter than any viscous time on the grid (the disk thermal time is ~ years to 1e3 yr)',
+  }),
   lx_scaling: choice({
     choices: ['fixed', 'l_phot'],
     default: 'fixed',

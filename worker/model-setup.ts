@@ -178,7 +178,9 @@ export function setupModel(p: ModelParams): ModelSetup {
     infall,
     spin: { k2: p.k2_star, rStar: rsunToCm(p.r_star_rsun), period: daysToS(p.p_star_days) },
     winds: windsFromParams(p),
-    luminosity: { lPhot, accretion: p.accretion_luminosity === 'on', rStar: rsunToCm(p.r_star_rsun), floor4 },
+    luminosity: {
+      lPhot, accretion: p.accretion_luminosity === 'on', accretionMemory: yrToS(p.l_acc_memory_yr), rStar: rsunToCm(p.r_star_rsun), floor4,
+    },
     // A tenth of a year is far below any viscous time on the grid; the step doubles from there.
     initialDt: yrToS(0.1),
   };

@@ -24,6 +24,7 @@ const ASTROPY_UNITS: Readonly<Record<string, string | null>> = {
   'cm^2 g^-1': 'cm2 / g',
   's^-1': '1 / s',
   'cm^-2': '1 / cm2',
+  yr: 'yr',
 };
 
 export function astropyUnit(unit: string): string | null {

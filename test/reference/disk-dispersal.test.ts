@@ -7,6 +7,7 @@ import { describe, expect, it } from 'vitest';
 import { AU_CGS, L_SUN_CGS, M_SUN_CGS, MYR_CGS, YEAR_CGS } from '../../shared/constants.js';
 import { parseModelParams } from '../../shared/model-params.js';
 import { evolveDisk, type DiskState } from '../../worker/kernels/disk/evolve.js';
+import { relaxedAccretionLuminosity } from '../../worker/kernels/disk/stellar-luminosity.js';
 import { irradiationTemperature4 } from '../../worker/kernels/disk/thermal-structure.js';
 import { euvGravitationalRadius } from '../../worker/kernels/disk/winds/euv-photoevaporation.js';
 import { runModel } from '../../worker/model.js';
@@ -157,7 +158,8 @@ describe('irradiation follows L_* = L_phot + L_acc', () => {
   });
 
   it('reports L_* and L_acc at checkpoints; accretion_luminosity=off leaves L_phot alone', () => {
-    const on = runModel({ initial_state: 'disk', t_end_myr: 1, checkpoints_myr: [0.1, 1] });
+    // Without memory, L_acc is the instantaneous value of the step before the checkpoint.
+    const on = runModel({ initial_state: 'disk', t_end_myr: 1, checkpoints_myr: [0.1, 1], l_acc_memory_yr: 0 });
     for (const c of on.checkpoints) {
       expect(num(c.l_star_lsun)).toBeCloseTo(1 + num(c.l_acc_lsun), 12);
       expect(num(c.l_acc_lsun)).toBeGreaterThan(0);
@@ -169,6 +171,9 @@ describe('irradiation follows L_* = L_phot + L_acc', () => {
     const mdot = (num(c0.mdot_star_msun_yr) * M_SUN_CGS) / YEAR_CGS;
     const expected = (6.6743e-8 * num(c0.m_star_msun) * M_SUN_CGS * mdot) / rStar * (1 - rStar / rIn) / L_SUN_CGS;
     expect(num(c0.l_acc_lsun) / expected).toBeCloseTo(1, 10);
+    // With memory it relaxes exponentially: after a step dt from L_0 toward L_1, L_1 + (L_0 − L_1) e^{−dt/τ}.
+    expect(relaxedAccretionLuminosity(2, 1, 1000, 1000)).toBeCloseTo(1 + Math.exp(-1), 15);
+    expect(relaxedAccretionLuminosity(2, 1, 1000, 0)).toBe(1);
     const off = runModel({ initial_state: 'disk', t_end_myr: 1, checkpoints_myr: [0.1, 1], accretion_luminosity: 'off', l_phot_lsun: 2 });
     for (const c of off.checkpoints) expect([c.l_star_lsun, c.l_acc_lsun]).toEqual([2, 0]);
   });

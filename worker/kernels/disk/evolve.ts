@@ -29,7 +29,13 @@ import { diskAngularMomentum, diskMass } from './disk-diagnostics.js';
 import type { DiskGrid } from './grid.js';
 import { centrifugalRadius, depositInfall } from './infall.js';
 import { spinAngularMomentum } from './stellar-spin.js';
-import { accretionLuminosity, fillBaseTemperature4, irradiationPerLsun, type LuminositySetup } from './stellar-luminosity.js';
+import {
+  accretionLuminosity,
+  fillBaseTemperature4,
+  irradiationPerLsun,
+  relaxedAccretionLuminosity,
+  type LuminositySetup,
+} from './stellar-luminosity.js';
 import type { TransportPhysics, TransportSummary } from './transport-coefficients.js';
 import { computeTransportCoefficients } from './transport-coefficients.js';
 import type { EdgeCondition } from './viscous-transport.js';
@@ -400,7 +406,8 @@ export function evolveDisk(setup: EvolveSetup, observer: EvolveObserver = {}): E
     if (!accepted) return fail('step_collapse', `no acceptable step after ${MAX_RETRIES} retries at t = ${t.toExponential(4)} s`);
 
     if (lum !== undefined && irrPerLsun !== null) {
-      state.lAcc = lum.accretion ? accretionLuminosity(state.mStar, state.mdotStar, lum.rStar, grid.edges[0]) : 0;
+      const target = lum.accretion ? accretionLuminosity(state.mStar, state.mdotStar, lum.rStar, grid.edges[0]) : 0;
+      state.lAcc = relaxedAccretionLuminosity(state.lAcc, target, dtTaken, lum.accretionMemory);
       state.lStar = lum.lPhot + state.lAcc;
       fillBaseTemperature4(irrPerLsun, state.lStar, lum.floor4, physics.baseTemperature4);
     }

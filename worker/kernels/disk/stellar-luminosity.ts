@@ -18,10 +18,22 @@ export interface LuminositySetup {
   readonly lPhot: number;
   /** Add L_acc to the irradiating luminosity. */
   readonly accretion: boolean;
+  /** Memory of the irradiating L_acc, s: it relaxes toward its instantaneous value on this time (0 = at once). */
+  readonly accretionMemory: number;
   /** Stellar radius, cm. */
   readonly rStar: number;
   /** T_floor^4, K^4. */
   readonly floor4: number;
+}
+
+/**
+ * L_acc after a step of length dt: exponential relaxation toward the instantaneous value with time scale
+ * `memory` (exact for a constant target over the step). Without it, a disk whose MRI switch sits on the
+ * irradiation temperature feeds back on itself within one step (Mdot → L_acc → T → activity → Mdot) and flickers.
+ */
+export function relaxedAccretionLuminosity(previous: number, instantaneous: number, dt: number, memory: number): number {
+  if (!(memory > 0)) return instantaneous;
+  return instantaneous + (previous - instantaneous) * Math.exp(-dt / memory);
 }
 
 /** T_irr^4 per cell at one solar luminosity, K^4 (the irradiation is linear in L_*). */
