@@ -92,8 +92,13 @@ describe('a disk with a dead zone (ionization-based transport)', () => {
 
   it('the default infall model with ionization-based transport ends ok: the inner dead-zone edge is a steady front', { timeout: 180_000 }, () => {
     // With the thermal switch on the quiescent temperature (the default) a column cannot keep itself active by its
-    // own MRI heating, so the edge does not cycle (before: step_limit at 0.09 Myr). Measured: ok in 2688 steps.
-    const r = runModel({ active_layer: 'ionization' });
+    // own MRI heating, so the edge does not cycle (before: step_limit at 0.09 Myr). Measured: ok in 2688 steps,
+    // with a fixed irradiating luminosity. With L_acc in the irradiation (the default) the edge moves with the
+    // accretion luminosity during infall: ok in 12 421 steps (checked below).
+    const withAccretion = runModel({ active_layer: 'ionization' });
+    expect(withAccretion.status).toBe('ok');
+    expect(withAccretion.timing.steps).toBeLessThan(20_000);
+    const r = runModel({ active_layer: 'ionization', accretion_luminosity: 'off' });
     expect(r.status).toBe('ok');
     expect(r.scalars.mass_budget_rel_err).toBeLessThanOrEqual(1e-10);
     expect(r.scalars.j_budget_rel_err).toBeLessThanOrEqual(1e-10);

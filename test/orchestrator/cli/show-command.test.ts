@@ -18,7 +18,7 @@ let made: QueryDb;
 beforeAll(() => {
   dir = makeTempDir();
   db = `${dir}/wren.sqlite`;
-  made = buildQueryDb(dir, deadZoneGridSpec('wren-hollow', 3, 3), 'wren.sqlite', { limit: 8 }); // index 8 is stored below as a failure
+  made = buildQueryDb(dir, deadZoneGridSpec('wren-hollow', 4, 4), 'wren.sqlite', { limit: 15 }); // index 15 is stored below as a failure
 });
 
 afterAll(() => removeTempDir(dir));
@@ -45,8 +45,8 @@ describe('disksweep show', () => {
   });
 
   it('refuses an ambiguous prefix, listing the candidates, and an unknown or malformed one (exit 2)', () => {
-    // Point ids are hashes of the parameters, so these are fixed: of the 8 ids, two share a first digit (the
-    // test data were checked for it), and at least 8 of the 16 hex digits start none.
+    // Point ids are hashes of the parameters and the model version. With 15 ids, two share a first digit (pigeonhole
+    // fails only if all 15 first digits differ: odds 16!/16^15 ≈ 1e-5), and at least one hex digit starts none.
     const first = made.pointIds.map((id) => id[0]);
     const shared = first.find((c, k) => first.indexOf(c) !== k);
     expect(shared).toBeDefined();
@@ -82,7 +82,7 @@ describe('disksweep show', () => {
   it('says so for a point whose run failed outside the model, and has nothing to plot', () => {
     const store = openStore(db, { mode: 'write' });
     const failedId = 'e'.repeat(32);
-    store.writeResults([{ ...made.outcomes[0], pointId: failedId, pointIndex: 8, outcome: { kind: 'infrastructure', reason: 'worker thread exited (code 1)' } }]);
+    store.writeResults([{ ...made.outcomes[0], pointId: failedId, pointIndex: 15, outcome: { kind: 'infrastructure', reason: 'worker thread exited (code 1)' } }]);
     store.close();
     const r = runCli(['show', db, failedId]);
     expect(r.status).toBe(0);
