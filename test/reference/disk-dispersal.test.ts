@@ -60,7 +60,7 @@ describe('the UV switch (Clarke, Gendrin & Sotomayor 2001; qualitative)', () => 
     const gap = samples.find((s) => s.gapDepth < 1e-3);
     expect(gap).toBeDefined();
     if (gap === undefined) return;
-    // Measured: at 1.28 Myr, at 9.8 AU (R_g = 8.9 AU); the inner disk then holds 1.9e-7 M_sun.
+    // Measured: at 1.20 Myr, at 9.8 AU (R_g = 8.9 AU); the inner disk then holds 2.9e-7 M_sun.
     expect(gap.gapRadius).toBeGreaterThanOrEqual(rg);
     expect(gap.gapRadius).toBeLessThan(1.5 * rg);
     expect(gap.mInner).toBeGreaterThan(1e-7 * M_SUN_CGS);
@@ -76,8 +76,8 @@ describe('the UV switch (Clarke, Gendrin & Sotomayor 2001; qualitative)', () => 
     const tViscous = (rg * rg) / gap.nuRg;
     const tDrain = drained.t - gap.t;
     // A 100-fold drop of a viscously draining disk takes a few of its viscous times or less (common practice:
-    // the inner disk's mass falls as a power of t/t_ν, steepened by the cut-off supply). Measured: 7.1e4 yr
-    // against t_ν = 1.3e5 yr (ratio 0.55), 1.28 Myr after the start.
+    // the inner disk's mass falls as a power of t/t_ν, steepened by the cut-off supply). Measured: 7.2e4 yr
+    // against t_ν = 1.3e5 yr (ratio 0.55), 1.20 Myr after the start.
     expect(tDrain / tViscous).toBeGreaterThan(0.01);
     expect(tDrain / tViscous).toBeLessThan(3);
     expect(tDrain).toBeLessThan(0.2 * gap.t);
@@ -88,7 +88,8 @@ describe('the UV switch (Clarke, Gendrin & Sotomayor 2001; qualitative)', () => 
     expect(first).toBeDefined();
     if (first === undefined) return;
     const last = samples[samples.length - 1];
-    // The outer disk is gone by the end (measured: 1.7e-4 M_sun at 1.45 Myr, 1e-8 M_sun by 1.56 Myr).
+    // The outer disk is gone by the end (measured: 7.8e-4 M_sun when the cavity opened at 1.30 Myr with its rim at
+    // 16.8 AU; 1.3e-11 M_sun at 2 Myr, rim at 34 AU).
     expect(last.mDisk).toBeLessThan(1e-3 * first.mDisk);
     expect(last.rim).toBeGreaterThan(first.rim);
     expect(first.rim).toBeGreaterThan(rg);
