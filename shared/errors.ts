@@ -20,6 +20,10 @@ export type ErrorCode =
   | 'input/older-schema'
   /** A read-only command was pointed at a database file that does not exist. */
   | 'input/missing-database'
+  /** Redis refused the connection: a wrong password, or a TLS certificate that does not verify. */
+  | 'input/redis-refused'
+  /** Redis did not answer within the connection timeout. */
+  | 'redis/unreachable'
   /** A --where filter (or a name inside one) that the query grammar does not accept. */
   | 'input/invalid-filter'
   /** A --target that names no target, or gives it an unknown or out-of-range argument. */

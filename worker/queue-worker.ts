@@ -14,7 +14,7 @@ import { crashPoint } from '../shared/crash-point.js';
 import { chunkTaskSchema, type ChunkOutcomePayload } from '../shared/job-payload.js';
 import { MODEL_VERSION } from '../shared/model-version.js';
 import { redact, redactError } from '../shared/redact.js';
-import { bullConnection, type RedisTarget } from '../shared/redis/redis-connection.js';
+import { awaitRedis, bullConnection, type RedisTarget } from '../shared/redis/redis-connection.js';
 import { heartbeatKey, registryKey, resultsQueueName, versionTag } from '../shared/redis/redis-names.js';
 import { registryEntrySchema, RESULT_JOB_OPTIONS } from '../shared/redis/redis-registry.js';
 import { createChunkPool, type ChunkPool } from './chunk-pool.js';
@@ -187,6 +187,13 @@ export async function startQueueWorker(o: QueueWorkerOptions): Promise<QueueWork
       pollRunning = false;
     }
   };
+  // Wait for Redis (a worker may start before it), but give up at once on a wrong password or certificate.
+  try {
+    await awaitRedis(control.waitUntilReady(), control, o.target.description);
+  } catch (error) {
+    await pool.destroy(); // the control queue is left as it is: closing a refused connection rejects out of reach
+    throw error;
+  }
   pollTimer = setInterval(() => void tick(), POLL_MS);
   const beatTimer = setInterval(() => void heartbeat().catch((e: unknown) => logError('redis', e)), HEARTBEAT_MS);
   await heartbeat().catch((e: unknown) => logError('redis', e));

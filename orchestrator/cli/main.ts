@@ -4,7 +4,7 @@
  * code scripts can rely on (see EXIT CODES in --help).
  */
 import { Command, CommanderError } from 'commander';
-import { EXIT_BAD_INPUT, EXIT_OK, describeError, exitCodeFor } from '../../shared/errors.js';
+import { EXIT_BAD_INPUT, EXIT_FAILURE, EXIT_OK, describeError, exitCodeFor } from '../../shared/errors.js';
 import { parseModelParams } from '../../shared/model-params.js';
 import { MODEL_VERSION } from '../../shared/model-version.js';
 import { runValidatedModel } from '../../worker/model.js';
@@ -99,4 +99,18 @@ async function main(argv: readonly string[]): Promise<number> {
   }
 }
 
-process.exitCode = await main(process.argv.slice(2));
+// Whatever escapes (a library's late error, an unhandled rejection) is printed through the one redactor, never
+// as Node's raw stack trace, which may hold a Redis URL with its password.
+const crash = (error: unknown): void => {
+  process.stderr.write(describeError(error) + '\n');
+  process.exit(EXIT_FAILURE);
+};
+process.on('uncaughtException', crash);
+process.on('unhandledRejection', crash);
+
+const code = await main(process.argv.slice(2));
+// A failed command exits now: a Redis client still retrying (or a library rejecting late while it shuts down)
+// must neither keep the process alive nor change its exit code. Output is written synchronously to pipes
+// and files on Linux and macOS, so nothing printed is lost.
+if (code !== EXIT_OK) process.exit(code);
+process.exitCode = code;

@@ -13,11 +13,14 @@ import { ResultCommitter } from '../sweep/result-committer.js';
 import { createEmbeddedTransport } from '../transport/embedded-transport.js';
 import { redact } from '../../shared/redact.js';
 import type { Transport } from '../transport/transport.js';
-import { redisSettings, type RedisFlags } from './redis-flags.js';
+import { redisSettings, type RedisFlags, type RedisSettings } from './redis-flags.js';
 
 export interface OpenTransportInput {
-  readonly flags: RedisFlags & { workers?: string };
-  /** Threads for the embedded transport (or local Redis workers when --workers was given). */
+  /** From `checkRedis`: undefined for the embedded transport. */
+  readonly redis: RedisSettings | undefined;
+  /** With Redis: also run `workers` worker threads in this process (--workers was given). */
+  readonly localWorkers: boolean;
+  /** Threads for the embedded transport (or local Redis workers). */
   readonly workers: number;
   readonly store: SweepStore;
   readonly plan: SweepPlan;
@@ -34,10 +37,23 @@ function testSeconds(name: string): number | undefined {
   return n;
 }
 
-export async function openTransport(input: OpenTransportInput): Promise<Transport> {
-  const settings = redisSettings(input.flags, log);
-  if (settings === undefined) return createEmbeddedTransport({ threads: input.workers });
+/**
+ * The Redis the flags name (or undefined), checked before anything is written: a malformed URL exits 2, a
+ * wrong password or an unverifiable certificate exits 2, an unreachable Redis fails after 10 s. Warns about a
+ * password on the command line.
+ */
+export async function checkRedis(flags: RedisFlags): Promise<RedisSettings | undefined> {
+  const settings = redisSettings(flags, log);
+  if (settings === undefined) return undefined;
   // BullMQ and its Redis client load only when Redis is used: every other command starts ~0.8 s faster.
+  const { probeRedis } = await import('../transport/redis-inspect.js');
+  await probeRedis(settings.target);
+  return settings;
+}
+
+export async function openTransport(input: OpenTransportInput): Promise<Transport> {
+  const settings = input.redis;
+  if (settings === undefined) return createEmbeddedTransport({ threads: input.workers });
   const { createRedisTransport } = await import('../transport/redis-transport.js');
   const { target } = settings;
   const prefixFlag = target.prefix === 'disksweep' ? '' : ` --redis-prefix ${target.prefix}`;
@@ -49,7 +65,7 @@ export async function openTransport(input: OpenTransportInput): Promise<Transpor
   const committer = new ResultCommitter(input.plan.source, input.store);
   await transport.drain((outcome) => committer.commit(outcome));
   let local: QueueWorker | null = null;
-  if (input.flags.workers !== undefined) {
+  if (input.localWorkers) {
     const { startQueueWorker } = await import('../../worker/queue-worker.js');
     local = await startQueueWorker({ target, threads: input.workers, lockMs: settings.lockMs, stalledMs: settings.stalledMs, log: (l) => log(`local worker: ${l}`) });
   }

@@ -20,10 +20,10 @@ import { chunkCount } from '../sweep/sweep-runner.js';
 import { storedOutcomes } from '../sweep/result-committer.js';
 import { calibrate, planSweep, storedSpecJson, type SweepPlan } from '../sweep/sweep-plan.js';
 import { formatDuration } from './progress.js';
-import { openTransport } from './open-transport.js';
+import { checkRedis, openTransport } from './open-transport.js';
 import { lockStore } from './lock-store.js';
 import { redisStatus } from './redis-commands.js';
-import { redisOptions, withRedisOptions, type RedisFlags } from './redis-flags.js';
+import { redisOptions, withRedisOptions, type RedisFlags, type RedisSettings } from './redis-flags.js';
 
 export const EXIT_INTERRUPTED = 130;
 
@@ -80,8 +80,8 @@ export function resumeCommand(store: StoreReader, plan: SweepPlan): string {
   return `disksweep resume --db ${shellWord(store.file)}${several ? ` --sweep ${plan.sweepId.slice(0, 12)}` : ''}`;
 }
 
-async function runPlanned(store: SweepStore, plan: SweepPlan, chunkSize: number, dbFile: string, workers: number, retryFailed: boolean, reused: number, json: boolean, flags: RedisFlags & { workers?: string } = {}): Promise<number> {
-  const transport = await openTransport({ flags, workers, store, plan }); // Redis: drains waiting results first
+async function runPlanned(store: SweepStore, plan: SweepPlan, chunkSize: number, dbFile: string, workers: number, retryFailed: boolean, reused: number, json: boolean, redis: RedisSettings | undefined, localWorkers: boolean): Promise<number> {
+  const transport = await openTransport({ redis, localWorkers, workers, store, plan }); // Redis: drains waiting results first
   const hasResult = store.pointIndexesWithResult(plan.sweepId, { retryFailed });
   process.stderr.write(`running ${plan.spec.name}: ${plan.source.size} points in ${chunkCount(plan.source.size, chunkSize)} chunks of ${chunkSize}, ${transport.description}\n`);
   const r = await executeSweep({ store, plan, chunkSize, hasResult, transport, progressStream: process.stderr, handleSignals: true });
@@ -116,6 +116,7 @@ function beforeLocking<T>(dbFile: string, check: (reader: StoreReader) => T): T 
 async function runCommandAction(specFile: string, opts: { db?: string; workers?: string; json?: boolean } & RedisFlags): Promise<number> {
   const workers = parseWorkers(opts.workers);
   const plan = planSweep(loadSpecFile(specFile));
+  const redis = await checkRedis(opts); // before anything is written
   const dbFile = opts.db ?? `${plan.spec.name}.sqlite`;
   // A new (absent or empty) file is created by the write open; an existing one is checked read-only first.
   if (existsSync(dbFile) && statSync(dbFile).size > 0) {
@@ -150,7 +151,7 @@ async function runCommandAction(specFile: string, opts: { db?: string; workers?:
       if (calibrationOutcomes.length > 0) store.writeResults(calibrationOutcomes);
       reused = reuseEarlierResults(store, plan);
     }
-    return await runPlanned(store, plan, sweep.chunkSize, dbFile, workers, false, reused, opts.json === true, opts);
+    return await runPlanned(store, plan, sweep.chunkSize, dbFile, workers, false, reused, opts.json === true, redis, opts.workers !== undefined);
   } finally {
     store.close();
   }
@@ -174,6 +175,7 @@ function reuseEarlierResults(store: SweepStore, plan: SweepPlan): number {
 async function resumeCommandAction(opts: { db: string; sweep?: string; workers?: string; retryFailed?: boolean; json?: boolean } & RedisFlags): Promise<number> {
   const workers = parseWorkers(opts.workers);
   beforeLocking(opts.db, (reader) => checkModelVersion(pickSweep(reader, opts.sweep), opts.db));
+  const redis = await checkRedis(opts); // before anything is written
   const store = lockStore(opts.db);
   try {
     const sweep = pickSweep(store, opts.sweep);
@@ -182,7 +184,7 @@ async function resumeCommandAction(opts: { db: string; sweep?: string; workers?:
     if (plan.sweepId !== sweep.sweepId) {
       throw new DisksweepError('internal/unexpected', `stored spec of ${sweep.name} hashes to ${plan.sweepId}, not its id ${sweep.sweepId}`);
     }
-    return await runPlanned(store, plan, sweep.chunkSize, opts.db, workers, opts.retryFailed === true, 0, opts.json === true, opts);
+    return await runPlanned(store, plan, sweep.chunkSize, opts.db, workers, opts.retryFailed === true, 0, opts.json === true, redis, opts.workers !== undefined);
   } finally {
     store.close();
   }

@@ -3,8 +3,9 @@
  * their heartbeat keys (with the model version each runs: a worker of another version never takes this sweep's
  * chunks), the sweep's chunk and results queues, and whether it is registered for workers.
  */
-import { Queue } from 'bullmq';
-import { bullConnection, redactedError, type RedisTarget } from '../../shared/redis/redis-connection.js';
+import { Queue, RedisConnection } from 'bullmq';
+import { DisksweepError } from '../../shared/errors.js';
+import { awaitRedis, bullConnection, redactedError, type RedisTarget } from '../../shared/redis/redis-connection.js';
 import { chunkQueueName, heartbeatPattern, registryKey, resultsQueueName, sentinelKey, versionTag } from '../../shared/redis/redis-names.js';
 import { heartbeatSchema, type Heartbeat } from '../../shared/redis/redis-registry.js';
 
@@ -24,22 +25,41 @@ export interface SweepInRedis {
 
 const COUNTED = ['waiting', 'active', 'delayed', 'prioritized', 'completed', 'failed'] as const;
 
+/** How long a command waits for an unreachable Redis before it gives up. */
+export const CONNECT_TIMEOUT_MS = 10_000;
+
 /** Open both queues of a sweep, run `fn`, close them; a Redis error becomes a redacted DisksweepError. */
 async function withQueues<T>(target: RedisTarget, sweepId: string, modelVersion: string, fn: (chunks: Queue, results: Queue) => Promise<T>): Promise<T> {
-  const connection = { ...bullConnection(target.connection), maxRetriesPerRequest: 1, retryStrategy: () => null };
+  const connection = bullConnection(target.connection);
   const chunks = new Queue(chunkQueueName(sweepId, modelVersion), { connection, prefix: target.prefix });
   const results = new Queue(resultsQueueName(sweepId, modelVersion), { connection, prefix: target.prefix });
-  let lastError: unknown = null;
-  chunks.on('error', (e) => (lastError = e));
-  results.on('error', (e) => (lastError = e));
+  const ignore = (): void => undefined; // awaitRedis reports connection errors; later ones reject the command
+  chunks.on('error', ignore);
+  results.on('error', ignore);
+  // Each queue connects at once; a refused connection must not surface later as an unhandled rejection.
+  results.waitUntilReady().catch(ignore);
+  let out: T;
   try {
-    await chunks.waitUntilReady();
-    return await fn(chunks, results);
+    await awaitRedis(chunks.waitUntilReady(), chunks, target.description, CONNECT_TIMEOUT_MS);
+    out = await fn(chunks, results);
   } catch (error) {
-    throw redactedError(lastError ?? error, `Redis at ${target.description}`);
-  } finally {
-    await Promise.allSettled([chunks.close(), results.close()]);
+    // Not closed: closing a connection that was refused rejects inside BullMQ where nobody can catch it; the
+    // command fails and its process exits (main.ts) with the clients as they are.
+    if (error instanceof DisksweepError) throw error;
+    throw redactedError(error, `Redis at ${target.description}`);
   }
+  await Promise.allSettled([chunks.close(), results.close()]);
+  return out;
+}
+
+/** Connect once and ask the server something: a wrong password, a bad certificate or no Redis fails here. Writes nothing. */
+export async function probeRedis(target: RedisTarget): Promise<void> {
+  const connection = new RedisConnection(bullConnection(target.connection));
+  connection.on('error', () => undefined); // awaitRedis reports it
+  const client = connection.client;
+  await awaitRedis(client, connection, target.description, CONNECT_TIMEOUT_MS); // left as it is on failure: see withQueues
+  await (await client).info();
+  await connection.close().catch(() => undefined);
 }
 
 /** Live worker heartbeats under the target's prefix, oldest host first. */

@@ -8,7 +8,7 @@ import { writeFileSync } from 'node:fs';
 import { afterEach, beforeEach } from 'vitest';
 import { z } from 'zod';
 import { faultModelEnv, startCli, type CliOptions, type CliProcess } from './cli.js';
-import { startTestRedis, uniquePrefix, type TestRedis } from './redis-harness.js';
+import { startTestRedis, uniquePrefix, type RedisServerOptions, type TestRedis } from './redis-harness.js';
 import { TINY_FIXED, TINY_MODEL, writeSpec } from './sweep-specs.js';
 
 /** Short lock and stalled intervals: a dead worker's chunk comes back within a few seconds. */
@@ -31,13 +31,16 @@ export interface RedisSweepContext {
   start(args: readonly string[], options?: CliOptions): CliProcess;
 }
 
-/** A fresh redis-server and key prefix per test; every process started through the context dies after it. */
-export function useRedisSweep(): RedisSweepContext {
+/**
+ * A fresh redis-server and key prefix per test; every process started through the context dies after it.
+ * `server` gives the server's options (a password, TLS) when the test starts.
+ */
+export function useRedisSweep(server: () => RedisServerOptions = () => ({})): RedisSweepContext {
   let redis: TestRedis | null = null;
   let prefix = '';
   const procs: CliProcess[] = [];
   beforeEach(async () => {
-    redis = await startTestRedis();
+    redis = await startTestRedis(server());
     prefix = uniquePrefix('e2e');
   });
   afterEach(async () => {
