@@ -99,6 +99,13 @@ async function main(argv: readonly string[]): Promise<number> {
   }
 }
 
+// `disksweep export ... | head`: the reader closing the pipe is its choice, not our failure. Node ignores SIGPIPE and
+// reports EPIPE as an error on stdout, which would otherwise surface as an unhandled exception with a stack.
+process.stdout.on('error', (error: NodeJS.ErrnoException) => {
+  if (error.code === 'EPIPE') process.exit(EXIT_OK);
+  throw error;
+});
+
 // Whatever escapes (a library's late error, an unhandled rejection) is printed through the one redactor, never
 // as Node's raw stack trace, which may hold a Redis URL with its password.
 const crash = (error: unknown): void => {

@@ -2,10 +2,11 @@
  * `disksweep model` as a process: bad input exits 2 naming the parameter, the value and the allowed range,
  * before anything runs; a good run prints one ModelResult with --json; --list documents every parameter.
  */
+import { spawnSync } from 'node:child_process';
 import { describe, expect, it } from 'vitest';
 import { PARAM_NAMES } from '../../../shared/model-params.js';
 import { modelResultSchema } from '../../../shared/model-result.js';
-import { runCli } from '../../support/cli.js';
+import { CLI_PATH, runCli } from '../../support/cli.js';
 
 interface BadCase {
   readonly args: string[];
@@ -93,5 +94,12 @@ describe('disksweep model: good runs', () => {
     expect(r.status).toBe(0);
     expect(r.stdout).toContain('Examples:');
     expect(r.stdout).toContain('Exit codes:');
+  });
+
+  it('a reader that closes the pipe early (`disksweep --help | head -c 10`) ends it quietly with exit 0', () => {
+    // The shell pipeline itself, so the reader really closes after 10 bytes while the CLI is still writing.
+    const r = spawnSync('bash', ['-c', `set -o pipefail; node "${CLI_PATH}" --help | head -c 10 >/dev/null`], { encoding: 'utf8' });
+    expect(r.stderr).toBe('');
+    expect(r.status).toBe(0);
   });
 });

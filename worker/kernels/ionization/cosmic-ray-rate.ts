@@ -5,7 +5,7 @@
  * Convention: each face contributes the FULL attenuated rate ζ_CR exp(−Σ_face/96), with ζ_CR the interstellar
  * rate per H₂ (1e-17 s^-1 by default, Umebayashi & Nakano 1981), and the two faces add. This is Umebayashi &
  * Nakano's law applied from each side, as the layered-accretion literature does (Gammie 1996; Bai & Goodman
- * 2009, whose first author's chemistry module sums ζ_CR [exp(−Σ₁/96) + exp(−Σ₂/96)]), and it makes the rate
+ * 2009; a public astrochemistry module implementing their fit sums ζ_CR [exp(−Σ₁/96) + exp(−Σ₂/96)]), and it makes the rate
  * at a face column of 96 g cm^-2 exactly ζ_CR/e from that face. A thin column lit from both faces then gets up
  * to 2 ζ_CR; there X-rays and the FUV layer dominate anyway. (The other convention in use, ζ_CR/2 per face
  * so that a thin column gets ζ_CR back, would move every cosmic-ray layer boundary up by 96 ln 2 ≈ 67 g cm^-2.)

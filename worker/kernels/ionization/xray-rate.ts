@@ -11,8 +11,8 @@
  * Per H or per H₂: Igea & Glassgold quote rates per H nucleus; the coefficients as published in eq. 21 carry
  * the factor 2 already and give the rate per H₂ molecule, this kernel's convention (gas-composition.ts), so
  * they are used as they stand. Evidence (the paper's own text could not be opened here): a public
- * implementation by the paper's first author (chemistry module `disk.c`, "fitting formula from Bai & Goodman
- * (2009)") holds per-H rows ζ₁ = 3.0e-12, ζ₂ = 0.5e-15 (3 keV) and 2.0e-12, 1.5e-15 (5 keV) and multiplies
+ * astrochemistry module that implements this fit (citing it as "fitting formula from Bai & Goodman (2009)")
+ * holds per-H rows ζ₁ = 3.0e-12, ζ₂ = 0.5e-15 (3 keV) and 2.0e-12, 1.5e-15 (5 keV) and multiplies
  * the sum by 2 before it joins the per-H₂ cosmic-ray rate; an independent script quoting the paper gives
  * ζ₁ = 6e-12, ζ₂ = 1e-15 for 3 keV, which is that ×2. The 5 keV row below is the per-H row of that module ×2;
  * the paper's printed 5 keV numbers were not seen.
@@ -38,7 +38,7 @@ export const XRAY_FIT_3KEV: XrayFitRow = {
   kTKev: 3, zeta1: 6.0e-12, n1: 1.5e21, alpha: 0.4, zeta2: 1.0e-15, n2: 7.0e23, beta: 0.65,
 };
 
-/** kT_X = 5 keV (Bai & Goodman 2009; per-H row of the first author's module ×2): ζ₁ = 4.0e-12, N₁ = 3.0e21, α = 0.5; ζ₂ = 3.0e-15, N₂ = 1.0e24, β = 0.7. */
+/** kT_X = 5 keV (Bai & Goodman 2009; per-H row of that public module ×2): ζ₁ = 4.0e-12, N₁ = 3.0e21, α = 0.5; ζ₂ = 3.0e-15, N₂ = 1.0e24, β = 0.7. */
 export const XRAY_FIT_5KEV: XrayFitRow = {
   kTKev: 5, zeta1: 4.0e-12, n1: 3.0e21, alpha: 0.5, zeta2: 3.0e-15, n2: 1.0e24, beta: 0.7,
 };

@@ -32,7 +32,7 @@ describe('cosmic rays (Umebayashi & Nakano 1981)', () => {
 
 // The published coefficients, typed here from the sources named in xray-rate.ts, not from the code: per H2,
 // per face, at L_X = 1e29 erg/s and 1 AU. 3 keV: Bai & Goodman 2009, eq. 21. 5 keV: the per-H row of the
-// paper's first author's implementation (2.0e-12, 3.0e21, 0.5; 1.5e-15, 1.0e24, 0.7) x 2 (per H -> per H2).
+// public astrochemistry module named in xray-rate.ts (2.0e-12, 3.0e21, 0.5; 1.5e-15, 1.0e24, 0.7) x 2 (per H -> per H2).
 const PUBLISHED = {
   '3 keV': { fit: XRAY_FIT_3KEV, z1: 6.0e-12, n1: 1.5e21, a: 0.4, z2: 1.0e-15, n2: 7.0e23, b: 0.65 },
   '5 keV': { fit: XRAY_FIT_5KEV, z1: 2 * 2.0e-12, n1: 3.0e21, a: 0.5, z2: 2 * 1.5e-15, n2: 1.0e24, b: 0.7 },
