@@ -14,6 +14,8 @@
  *                    timed on the model's own states (winds-bench.ts)
  *   sqlite_ingest, sweep_parallel_efficiency, noop_overhead, orchestrator_rss
  *                    the store and the sweep machinery (system-bench.ts)
+ *   redis            the Redis transport end to end: no-op points/s, two worker processes against the embedded
+ *                    transport on real models, Redis memory at the --max-queued limit (redis-bench.ts)
  *   multi_host       a Redis sweep with its two workers in two network namespaces against both on loopback:
  *                    points/s and their ratio (multihost-bench.ts; skipped unless Linux, root, ip, redis-server)
  *   query            evaluateTargets, marginals and PRIM on a synthetic 10^6-point database (query-bench.ts), with
@@ -35,6 +37,7 @@ import { benchModel, type ModelBenchResult } from './model-bench.js';
 import { benchMultiHost } from './multihost-bench.js';
 import { plotsBenchExtra } from './plots-bench.js';
 import { benchQuery } from './query-bench.js';
+import { benchRedis } from './redis-bench.js';
 import { median, progress, quantile, sig } from './stats.js';
 import { benchSystem } from './system-bench.js';
 import { benchWinds } from './winds-bench.js';
@@ -208,6 +211,7 @@ async function main(): Promise<void> {
   };
 
   const system = await benchSystem();
+  const redis = await benchRedis();
   const multiHost = await benchMultiHost();
   // DISKSWEEP_BENCH_QUERY_POINTS shrinks the synthetic database for a quick look (the goals are for 10^6).
   const query = benchQuery(Number(process.env.DISKSWEEP_BENCH_QUERY_POINTS ?? 1_000_000), [plotsBenchExtra]);
@@ -226,6 +230,7 @@ async function main(): Promise<void> {
     },
     c_reference: c,
     ...system.sections,
+    redis,
     multi_host: multiHost,
     query: query.section,
     machine: {
