@@ -11,6 +11,8 @@ export type ErrorCode =
   | 'input/invalid-flag'
   | 'input/invalid-spec'
   | 'input/unreadable-file'
+  /** A file a command was asked to write (--out, --svg, --png) cannot be written: missing directory, no permission. */
+  | 'input/unwritable-file'
   | 'input/model-version'
   /** The file is not a disksweep database (not SQLite, or another program's SQLite file). */
   | 'input/not-our-database'

@@ -396,12 +396,12 @@ export const PARAMS = {
   f_mass_star: num({
     unit: '1', default: 0.99, min: 0, max: 1, minExclusive: true,
     description: 'Solar-like split: the star must hold at least this share of the mass.',
-    source: 'the Sun holds about 99.86 % of the solar system mass',
+    source: 'the Sun holds about 99.86 % of the solar system mass (from memory)',
   }),
   f_j_disk_max: num({
     unit: '1', default: 0.02, min: 0, max: 1, minExclusive: true,
     description: 'Solar-like split: the star spin may hold at most this share of the angular momentum.',
-    source: 'the Sun spin holds about 0.6 % of the solar system angular momentum',
+    source: 'the Sun spin holds about 0.6 % of the solar system angular momentum (from memory)',
   }),
   disk_end_mass_msun: num({
     unit: 'M_sun', default: 1e-5, min: 0, max: 1,

@@ -52,7 +52,7 @@ async function openOut(path: string | undefined): Promise<{ out: Writable; finis
     await once(out, 'open');
   } catch (error) {
     const code = (error as NodeJS.ErrnoException).code ?? 'error';
-    throw new DisksweepError('input/unreadable-file', `--out ${path}: cannot write the file (${code})`, { cause: error });
+    throw new DisksweepError('input/unwritable-file', `--out ${path}: cannot write the file (${code})`, { cause: error });
   }
   return {
     out,

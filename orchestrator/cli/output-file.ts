@@ -10,6 +10,6 @@ export function writeOutputFile(flag: string, path: string, data: string | Uint8
     writeFileSync(path, data);
   } catch (error) {
     const code = (error as NodeJS.ErrnoException).code ?? 'error';
-    throw new DisksweepError('input/unreadable-file', `${flag} ${path}: cannot write the file (${code})`, { cause: error });
+    throw new DisksweepError('input/unwritable-file', `${flag} ${path}: cannot write the file (${code})`, { cause: error });
   }
 }

@@ -42,7 +42,7 @@ Names a filter may use (name, where it lives, unit):
 ${filterNameLines().map((l) => `  ${l}`).join('\n')}
 
 Exit codes: 0 answered; 2 bad input (unknown target, argument, name or sweep; a filter that does not parse,
-with the column; no data for a target, e.g. lifetime before the model records one; no point selected).`;
+with the column; an output this database was written without; no point selected).`;
 
 const optionsSchema = z.object({
   target: z.array(z.string()),

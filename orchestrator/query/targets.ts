@@ -8,7 +8,7 @@
  * `accretion-window(at_myr=1,min=1e-9,max=1e-7)`, `dead-zone(present=no)`.
  */
 import { DisksweepError } from '../../shared/errors.js';
-import { SCALAR_OUTPUTS } from '../../shared/model-outputs.js';
+import type { ScalarOutputName } from '../../shared/model-outputs.js';
 import { suggestionFor } from '../../shared/model-params.js';
 import type { CompareOp, Expr } from './parser.js';
 
@@ -60,15 +60,8 @@ const allOf = (parts: readonly Expr[]): Expr =>
 const atMyr: TargetArg = { name: 'at_myr', unit: 'Myr', kind: 'number', default: 1, min: 0, minExclusive: true, description: 'checkpoint time (one the sweep records)' };
 const n = (a: TargetArgs, k: string): number | null => (typeof a[k] === 'number' ? (a[k] as number) : null);
 
-/**
- * The registry's disk-lifetime output, once the model records one: `disk_lifetime_myr`, else the first scalar
- * in Myr named *lifetime* that is not counted from the end of infall.
- */
-export function lifetimeOutputName(): string | null {
-  const scalars: readonly { name: string; unit: string }[] = SCALAR_OUTPUTS;
-  const d = scalars.find((o) => o.name === 'disk_lifetime_myr') ?? scalars.find((o) => /lifetime/.test(o.name) && !/after_infall/.test(o.name) && o.unit === 'Myr');
-  return d === undefined ? null : d.name;
-}
+/** The recorded dispersal time (null while a disk is still there when its run ends). */
+const LIFETIME_OUTPUT: ScalarOutputName = 'disk_lifetime_myr';
 
 export const TARGETS: readonly TargetDescriptor[] = [
   {
@@ -76,7 +69,7 @@ export const TARGETS: readonly TargetDescriptor[] = [
     description:
       'the solar-like split is reached by t_max: M_*/(M_* + M_disk) >= f_m and J_spin/(J_spin + J_disk) <= f_j, first holding ' +
       'after infall ends. Thresholds other than those the models ran with are re-evaluated from the stored series.',
-    source: 'the Sun holds about 99.86 % of the solar-system mass and about 0.6 % of its angular momentum',
+    source: 'the Sun holds about 99.86 % of the solar-system mass and about 0.6 % of its angular momentum (from memory)',
     args: [
       { name: 'f_m', unit: '1', kind: 'number', default: 0.99, min: 0, max: 1, minExclusive: true, description: 'least star share of the mass' },
       { name: 'f_j', unit: '1', kind: 'number', default: 0.02, min: 0, max: 1, minExclusive: true, description: 'largest spin share of the angular momentum' },
@@ -145,15 +138,7 @@ export const TARGETS: readonly TargetDescriptor[] = [
       { name: 'min_myr', unit: 'Myr', kind: 'number', default: 1, min: 0, description: 'shortest lifetime' },
       { name: 'max_myr', unit: 'Myr', kind: 'number', default: 10, min: 0, description: 'longest lifetime' },
     ],
-    build: (a) => {
-      const name = lifetimeOutputName();
-      if (name === null) {
-        throw new DisksweepError('input/no-data', 'target lifetime: this disksweep records no disk lifetime yet (no *lifetime* output in the output registry), so no point can be tested', {
-          details: ['the lifetime output arrives with disk dispersal; until then use solar-split, accretion-window, dead-zone or disk-fraction'],
-        });
-      }
-      return allOf(within(n(a, 'min_myr'), { kind: 'ref', name, atMyr: null, column: C }, n(a, 'max_myr')));
-    },
+    build: (a) => allOf(within(n(a, 'min_myr'), { kind: 'ref', name: LIFETIME_OUTPUT, atMyr: null, column: C }, n(a, 'max_myr'))),
   },
 ];
 

@@ -33,7 +33,7 @@ export function prepareOutDir(dir: string, force: boolean): void {
     try {
       mkdirSync(dir, { recursive: true });
     } catch (error) {
-      throw new DisksweepError('input/unreadable-file', `--out ${dir}: cannot create the directory (${(error as NodeJS.ErrnoException).code ?? 'error'})`, { cause: error });
+      throw new DisksweepError('input/unwritable-file', `--out ${dir}: cannot create the directory (${(error as NodeJS.ErrnoException).code ?? 'error'})`, { cause: error });
     }
   }
 }

@@ -9,6 +9,9 @@ import { decodeSeries, type ModelResult } from '../../shared/model-result.js';
 import { linePlot, type LinePlot } from '../plots/line-plot.js';
 import { stackFigures, type Figure } from '../plots/svg.js';
 import { formatNumber } from '../plots/ticks.js';
+
+/** Lower end of the angular-momentum share axis: shares below it are of no consequence. */
+const J_SHARE_FLOOR = 1e-6;
 import { renderPlot } from '../cli/terminal-plot.js';
 
 const nullToNaN = (v: number | null): number => (v === null ? NaN : v);
@@ -29,6 +32,13 @@ export function pointPanels(p: ModelParams, r: ModelResult): PointPanels {
   const flat = (v: number) => Array.from(t, () => v);
   const jTotal = cps.map((c) => nullToNaN(c.j_disk_g_cm2_s) + nullToNaN(c.j_spin_g_cm2_s) + nullToNaN(c.j_removed_g_cm2_s) + nullToNaN(c.j_lost_g_cm2_s));
   const jShare = (pick: (c: (typeof cps)[number]) => number | null) => cps.map((c, k) => (jTotal[k] > 0 ? nullToNaN(pick(c)) / jTotal[k] : NaN));
+  // A share that stays below the axis floor draws nothing: its legend entry says so instead of naming a curve
+  // nobody can find.
+  const jSeries = (label: string, pick: (c: (typeof cps)[number]) => number | null) => {
+    const y = jShare(pick);
+    const hidden = y.every((v) => !(v >= J_SHARE_FLOOR));
+    return { label: hidden ? `${label} (below ${J_SHARE_FLOOR.toExponential(0)} throughout)` : label, x: ct, y, markers: true };
+  };
   return {
     masses: {
       title: 'star and disk mass', xLabel: 't [Myr]', yLabel: 'mass [M_sun]', yAxis: 'log',
@@ -51,12 +61,12 @@ export function pointPanels(p: ModelParams, r: ModelResult): PointPanels {
     },
     angularMomentum: {
       // Shares below 1e-6 of the total are of no consequence and would stretch the axis over many decades.
-      title: 'where the angular momentum is (checkpoints)', xLabel: 't [Myr]', yLabel: 'share of the total J', yAxis: 'log', yRange: [1e-6, 1],
+      title: 'where the angular momentum is (checkpoints)', xLabel: 't [Myr]', yLabel: 'share of the total J', yAxis: 'log', yRange: [J_SHARE_FLOOR, 1],
       series: [
-        { label: 'disk', x: ct, y: jShare((c) => c.j_disk_g_cm2_s), markers: true },
-        { label: 'star spin', x: ct, y: jShare((c) => c.j_spin_g_cm2_s), markers: true },
-        { label: 'removed (torques, winds)', x: ct, y: jShare((c) => c.j_removed_g_cm2_s), markers: true },
-        { label: 'lost through R_out', x: ct, y: jShare((c) => c.j_lost_g_cm2_s), markers: true },
+        jSeries('disk', (c) => c.j_disk_g_cm2_s),
+        jSeries('star spin', (c) => c.j_spin_g_cm2_s),
+        jSeries('removed (torques, winds)', (c) => c.j_removed_g_cm2_s),
+        jSeries('lost through R_out', (c) => c.j_lost_g_cm2_s),
       ],
     },
     deadZone: {

@@ -6,9 +6,8 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { runCli } from '../../support/cli.js';
 import { buildQueryDb, splitGridSpec } from '../../support/query-db.js';
-import { openReadOnly } from '../../support/sweep-db.js';
+import { openReadOnly, queryRows } from '../../support/sweep-db.js';
 import { makeTempDir, removeTempDir } from '../../support/temp-dir.js';
-import { lifetimeOutputName } from '../../../orchestrator/query/targets.js';
 
 let dir = '';
 let db = '';
@@ -76,15 +75,14 @@ describe('disksweep query', () => {
     expect(r.stderr).toContain(fragment);
   });
 
-  it('lifetime says it has no data until the model records a lifetime', () => {
-    const r = runCli(['query', db, '--target', 'lifetime']);
-    if (lifetimeOutputName() === null) {
-      expect(r.status).toBe(2);
-      expect(r.stderr).toContain('input/no-data');
-      expect(r.stderr).toContain('records no disk lifetime');
-    } else {
-      expect(r.status, r.stderr).toBe(0);
-    }
+  it('lifetime passes the points whose disk dispersed inside the window, counted from the stored rows', () => {
+    const lifetimes = queryRows<{ t: number | null }>(db, "SELECT disk_lifetime_myr AS t FROM results WHERE status = 'ok'").map((x) => x.t);
+    const ended = lifetimes.filter((t): t is number => t !== null);
+    const r = runCli(['query', db, '--target', 'lifetime(min_myr=0,max_myr=100)', '--json']);
+    expect(r.status, r.stderr).toBe(0);
+    const a = JSON.parse(r.stdout) as { pass: { pass: number; n: number } };
+    expect(a.pass.n).toBe(lifetimes.length);
+    expect(a.pass.pass).toBe(ended.length);
   });
 
   it('a missing database exits 2', () => {

@@ -7,7 +7,6 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { DisksweepError } from '../../../shared/errors.js';
 import { countTargets, evaluateTargets, parseTarget } from '../../../orchestrator/query/index.js';
 import { firstSplitFromSeries } from '../../../orchestrator/query/series-split.js';
-import { lifetimeOutputName } from '../../../orchestrator/query/targets.js';
 import { openStore, type StoreReader } from '../../../orchestrator/store/index.js';
 import { buildQueryDb, splitGridSpec } from '../../support/query-db.js';
 import { queryRows } from '../../support/sweep-db.js';
@@ -23,6 +22,7 @@ interface Row {
   alpha_active: number;
   t_solar_split_myr: number | null;
   t_infall_end_myr: number | null;
+  lifetime: number | null;
   mdot: number | null;
   m_disk_1: number;
   m_star_1: number;
@@ -38,7 +38,7 @@ beforeAll(() => {
   store = openStore(path, { mode: 'read' });
   rows = queryRows<Row>(
     path,
-    `SELECT p.point_index, p.m_disk_msun, p.alpha_active, r.t_solar_split_myr, r.t_infall_end_myr, c.mdot_star_msun_yr AS mdot,
+    `SELECT p.point_index, p.m_disk_msun, p.alpha_active, r.t_solar_split_myr, r.t_infall_end_myr, r.disk_lifetime_myr AS lifetime, c.mdot_star_msun_yr AS mdot,
             c.m_disk_msun AS m_disk_1, c.m_star_msun AS m_star_1, s.columns, s.n_samples, s.data
      FROM results r JOIN points p USING (point_key) JOIN checkpoint_rows c ON c.point_key = r.point_key AND abs(c.t_myr - 1) < 1e-9
      JOIN series_rows s ON s.point_key = r.point_key WHERE r.status = 'ok' ORDER BY p.point_index`,
@@ -154,20 +154,17 @@ describe('evaluateTargets', () => {
     expect(ev.counts.passed).toBe(9); // no target: every selected point passes
   });
 
-  it('the lifetime target says it has no data until the model records a lifetime', () => {
-    const name = lifetimeOutputName();
-    if (name === null) {
-      const run = () => evaluateTargets(store, { targets: [parseTarget('lifetime')] });
-      expect(run).toThrow(DisksweepError);
-      expect(run).toThrow(/records no disk lifetime/);
-      try {
-        run();
-      } catch (e) {
-        expect((e as DisksweepError).code).toBe('input/no-data');
-      }
-    } else {
-      const ev = evaluateTargets(store, { targets: [parseTarget('lifetime(min_myr=0,max_myr=100)')] });
-      expect(ev.counts.selected).toBe(9);
+  it('the lifetime target passes exactly the points whose recorded lifetime lies in its window', () => {
+    // Windows chosen from the stored lifetimes themselves, so each one splits this sweep (a window that passed
+    // every point or none could not tell a right answer from a wrong one).
+    const ended = rows.filter((r) => r.lifetime !== null).map((r) => r.lifetime as number).sort((a, b) => a - b);
+    expect(ended.length).toBeGreaterThan(0);
+    expect(ended.length).toBeLessThan(rows.length); // some disks are still there at t_end: they must fail
+    const windows: Array<[number, number]> = [[0, 100], [0, ended[0]], [ended[0] * 1.0001, 100]];
+    for (const [lo, hi] of windows) {
+      const ev = evaluateTargets(store, { targets: [parseTarget(`lifetime(min_myr=${lo},max_myr=${hi})`)] });
+      const expected = rows.filter((r) => r.lifetime !== null && r.lifetime >= lo && r.lifetime <= hi).map((r) => r.point_index);
+      expect(passSet(ev.pointIndex, ev.pass), `lifetime in [${lo}, ${hi}]`).toEqual(expected);
     }
   });
 

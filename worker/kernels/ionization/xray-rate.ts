@@ -33,12 +33,12 @@ export interface XrayFitRow {
   readonly beta: number;
 }
 
-/** kT_X = 3 keV (Bai & Goodman 2009, eq. 21): ζ₁ = 6.0e-12 s^-1, N₁ = 1.5e21 cm^-2, α = 0.4; ζ₂ = 1.0e-15 s^-1, N₂ = 7.0e23 cm^-2, β = 0.65. */
+/** kT_X = 3 keV (Bai & Goodman 2009, eq. 21, as quoted by two secondary sources; not checked against the paper's table): ζ₁ = 6.0e-12 s^-1, N₁ = 1.5e21 cm^-2, α = 0.4; ζ₂ = 1.0e-15 s^-1, N₂ = 7.0e23 cm^-2, β = 0.65. */
 export const XRAY_FIT_3KEV: XrayFitRow = {
   kTKev: 3, zeta1: 6.0e-12, n1: 1.5e21, alpha: 0.4, zeta2: 1.0e-15, n2: 7.0e23, beta: 0.65,
 };
 
-/** kT_X = 5 keV (Bai & Goodman 2009; per-H row of that public module ×2): ζ₁ = 4.0e-12, N₁ = 3.0e21, α = 0.5; ζ₂ = 3.0e-15, N₂ = 1.0e24, β = 0.7. */
+/** kT_X = 5 keV (Bai & Goodman 2009; per-H row of that public module ×2; not checked against the paper's table): ζ₁ = 4.0e-12, N₁ = 3.0e21, α = 0.5; ζ₂ = 3.0e-15, N₂ = 1.0e24, β = 0.7. */
 export const XRAY_FIT_5KEV: XrayFitRow = {
   kTKev: 5, zeta1: 4.0e-12, n1: 3.0e21, alpha: 0.5, zeta2: 3.0e-15, n2: 1.0e24, beta: 0.7,
 };
