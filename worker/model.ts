@@ -15,7 +15,8 @@ import {
 import { AU_CGS, G_CGS, L_SUN_CGS } from '../shared/constants.js';
 import { cmToAu, gToMsun, gsToMsunYr, msunToG, msunYrToGs, sToMyr } from '../shared/units.js';
 import { massRadii } from './kernels/disk/disk-diagnostics.js';
-import { angularMomentumRemoved, budgetErrors, evolveDisk, type DiskState } from './kernels/disk/evolve.js';
+import { angularMomentumRemoved, budgetErrors, type DiskState } from './kernels/disk/disk-state.js';
+import { evolveDisk } from './kernels/disk/evolve.js';
 import type { DiskGrid } from './kernels/disk/grid.js';
 import { SOUND_SPEED2_PER_K } from './kernels/disk/thermal-structure.js';
 import { deadZoneSummary } from './kernels/ionization/dead-zone.js';

@@ -18,7 +18,8 @@
 import { describe, expect, it } from 'vitest';
 import { G_CGS } from '../../shared/constants.js';
 import { parseModelParams } from '../../shared/model-params.js';
-import { budgetErrors, evolveDisk, type DiskState } from '../../worker/kernels/disk/evolve.js';
+import { budgetErrors, type DiskState } from '../../worker/kernels/disk/disk-state.js';
+import { evolveDisk } from '../../worker/kernels/disk/evolve.js';
 import type { DiskGrid } from '../../worker/kernels/disk/grid.js';
 import { runModel } from '../../worker/model.js';
 import { setupModel } from '../../worker/model-setup.js';

@@ -6,7 +6,8 @@
 import { describe, expect, it } from 'vitest';
 import { AU_CGS, L_SUN_CGS, M_SUN_CGS, MYR_CGS, YEAR_CGS } from '../../shared/constants.js';
 import { parseModelParams } from '../../shared/model-params.js';
-import { evolveDisk, type DiskState } from '../../worker/kernels/disk/evolve.js';
+import type { DiskState } from '../../worker/kernels/disk/disk-state.js';
+import { evolveDisk } from '../../worker/kernels/disk/evolve.js';
 import { relaxedAccretionLuminosity } from '../../worker/kernels/disk/stellar-luminosity.js';
 import { irradiationTemperature4 } from '../../worker/kernels/disk/thermal-structure.js';
 import { euvGravitationalRadius } from '../../worker/kernels/disk/winds/euv-photoevaporation.js';

@@ -15,7 +15,8 @@
 import { beforeAll, describe, expect, it } from 'vitest';
 import { AU_CGS, G_CGS, L_SUN_CGS, M_SUN_CGS } from '../../shared/constants.js';
 import { uniformActiveLayer } from '../../worker/kernels/disk/active-layer.js';
-import { evolveDisk, type DiskState } from '../../worker/kernels/disk/evolve.js';
+import type { DiskState } from '../../worker/kernels/disk/disk-state.js';
+import { evolveDisk } from '../../worker/kernels/disk/evolve.js';
 import { makeLogGrid, type DiskGrid } from '../../worker/kernels/disk/grid.js';
 import { constantOpacity } from '../../worker/kernels/disk/opacity.js';
 import { SOUND_SPEED2_PER_K, irradiationTemperature4 } from '../../worker/kernels/disk/thermal-structure.js';

@@ -26,6 +26,7 @@
 import { G_CGS, MYR_CGS } from '../../../shared/constants.js';
 import type { ModelStatus } from '../../../shared/model-result.js';
 import { diskAngularMomentum, diskMass } from './disk-diagnostics.js';
+import type { Budget, DiskState, EvolveObserver, EvolveOutcome } from './disk-state.js';
 import type { DiskGrid } from './grid.js';
 import { centrifugalRadius, depositInfall } from './infall.js';
 import { spinAngularMomentum } from './stellar-spin.js';
@@ -36,7 +37,7 @@ import {
   relaxedAccretionLuminosity,
   type LuminositySetup,
 } from './stellar-luminosity.js';
-import type { TransportPhysics, TransportSummary } from './transport-coefficients.js';
+import type { TransportPhysics } from './transport-coefficients.js';
 import { computeTransportCoefficients } from './transport-coefficients.js';
 import type { EdgeCondition } from './viscous-transport.js';
 import { linearizeFlux, perturbSigma } from './flux-linearization.js';
@@ -96,90 +97,6 @@ export interface EvolveSetup {
   readonly winds?: WindSetup | null;
   /** Irradiation that follows L_phot + L_acc; absent: `transport.baseTemperature4` stays as given. */
   readonly luminosity?: LuminositySetup;
-}
-
-/** Running totals since t = 0, cgs (g, g cm^2 s^-1). */
-export interface Budget {
-  massAccreted: number;
-  massLost: number;
-  massInfallDisk: number;
-  massInfallStar: number;
-  jAccreted: number;
-  jLost: number;
-  jInfallDisk: number;
-  jInfallStar: number;
-  /** Change of J_disk from the growth of M_* at fixed cell masses (every j_i ∝ M_*^{1/2}). */
-  jRescale: number;
-  /** Removed by photoevaporative winds, in all and per wind, with the angular momentum it carried. */
-  massWind: number;
-  massWindXray: number;
-  massWindEuv: number;
-  massWindFuv: number;
-  jWind: number;
-}
-
-/** The state an observer sees; valid only during the callback (arrays are reused). */
-export interface DiskState {
-  t: number;
-  steps: number;
-  rejectedSteps: number;
-  readonly sigma: Float64Array;
-  readonly temperature: Float64Array;
-  readonly nu: Float64Array;
-  /** MRI-active column the transport used, g cm^-2 (≤ Σ). */
-  readonly sigmaActive: Float64Array;
-  mStar: number;
-  mDisk: number;
-  jDisk: number;
-  jSpin: number;
-  /** Accretion rate onto the star over the last step (disk + infall inside R_in), g s^-1. */
-  mdotStar: number;
-  /** Toomre Q minimum and fragmentation flag from the last coefficient pass. */
-  transport: TransportSummary;
-  /** Irradiating luminosity L_phot + L_acc for the next step and its accretion part, erg s^-1. */
-  lStar: number;
-  lAcc: number;
-  /** Mass-loss rate of the winds over the last step, g s^-1, and the mass each cell lost to them, g. */
-  mdotWind: number;
-  readonly windLoss: Float64Array;
-  /** Inner cavity of the current state (winds/inner-cavity.ts; closed when there are no winds). */
-  cavity: InnerCavity;
-  readonly mDisk0: number;
-  readonly jDisk0: number;
-  readonly jSpin0: number;
-  readonly budget: Budget;
-}
-
-export interface EvolveObserver {
-  /** After every accepted step. */
-  onStep?(state: DiskState): void;
-  /** When t lands on an event time (state.t equals it exactly). */
-  onEvent?(state: DiskState): void;
-}
-
-export interface EvolveOutcome {
-  status: ModelStatus;
-  reason: string | null;
-  state: DiskState;
-}
-
-/** Angular momentum the star has received but not kept: torques and winds removed it. */
-export function angularMomentumRemoved(state: DiskState): number {
-  const b = state.budget;
-  return state.jSpin0 + b.jAccreted + b.jInfallStar - state.jSpin;
-}
-
-/** Relative closure errors of the mass and angular-momentum budgets of the disk. */
-export function budgetErrors(state: DiskState): { mass: number; angularMomentum: number } {
-  const b = state.budget;
-  const massIn = state.mDisk0 + b.massInfallDisk;
-  const massErr = state.mDisk - (massIn - b.massAccreted - b.massLost - b.massWind);
-  const jScale = state.jDisk0 + b.jInfallDisk + Math.abs(b.jRescale);
-  const jErr = state.jDisk - (state.jDisk0 + b.jInfallDisk + b.jRescale - b.jAccreted - b.jLost - b.jWind);
-  return {
-    mass: massIn > 0 ? Math.abs(massErr) / massIn : 0,
-    angularMomentum: jScale > 0 ? Math.abs(jErr) / jScale : 0,
-  };
 }
 
 const GROWTH_MAX = 2;
