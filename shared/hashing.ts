@@ -16,6 +16,34 @@ const ARRAY_INDEX = /^(?:0|[1-9]\d{0,9})$/;
 const isArrayIndex = (key: string): boolean => ARRAY_INDEX.test(key) && Number(key) < 4294967295;
 
 /**
+ * Sorted key order per object shape, and quoted keys: a sweep derives 10^5-10^6 points whose parameter objects
+ * share one shape, so both are computed once. Bounded, so odd inputs cannot grow them without limit.
+ */
+const CACHE_LIMIT = 1000;
+const keyOrders = new Map<string, readonly string[]>();
+const quotedKeys = new Map<string, string>();
+
+function orderedKeys(keys: string[]): readonly string[] {
+  const shape = keys.join('\u0000');
+  const hit = keyOrders.get(shape);
+  if (hit !== undefined) return hit;
+  keys.sort();
+  const indexes = keys.filter(isArrayIndex);
+  const ordered = indexes.length === 0 ? keys : [...indexes.sort((a, b) => Number(a) - Number(b)), ...keys.filter((k) => !isArrayIndex(k))];
+  if (keyOrders.size < CACHE_LIMIT) keyOrders.set(shape, ordered);
+  return ordered;
+}
+
+function quotedKey(key: string): string {
+  let q = quotedKeys.get(key);
+  if (q === undefined) {
+    q = JSON.stringify(key);
+    if (quotedKeys.size < CACHE_LIMIT * 10) quotedKeys.set(key, q);
+  }
+  return q;
+}
+
+/**
  * JSON text with the keys of every object sorted (and what JSON.stringify drops, dropped), written directly:
  * the text is byte for byte what `JSON.stringify` makes of a copy with sorted keys (integer-like keys first,
  * in numeric order, as objects enumerate them), without building the copies. Every point id is a hash of
@@ -34,15 +62,12 @@ function canonical(value: unknown): string | undefined {
       if (value === null) return 'null';
       if (Array.isArray(value)) return `[${value.map((v: unknown) => canonical(v) ?? 'null').join(',')}]`;
       const record = value as Record<string, unknown>;
-      const keys = Object.keys(record).sort();
-      const indexes = keys.filter(isArrayIndex);
-      const ordered = indexes.length === 0 ? keys : [...indexes.sort((a, b) => Number(a) - Number(b)), ...keys.filter((k) => !isArrayIndex(k))];
-      const parts: string[] = [];
-      for (const key of ordered) {
+      let out = '';
+      for (const key of orderedKeys(Object.keys(record))) {
         const text = canonical(record[key]);
-        if (text !== undefined) parts.push(`${JSON.stringify(key)}:${text}`);
+        if (text !== undefined) out += `${out === '' ? '' : ','}${quotedKey(key)}:${text}`;
       }
-      return `{${parts.join(',')}}`;
+      return `{${out}}`;
     }
     case 'bigint':
       throw new TypeError('canonicalJson: a BigInt has no JSON form');
