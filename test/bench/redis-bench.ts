@@ -117,7 +117,7 @@ async function withRedis<T>(fn: (redis: TestRedis) => Promise<T>): Promise<T> {
   }
 }
 
-export async function noopThroughput(): Promise<Record<string, unknown>> {
+async function noopThroughput(): Promise<Record<string, unknown>> {
   const points = 100_000;
   const chunk = 1000;
   progress(`redis.noop_throughput: ${points} no-op points, chunks of ${chunk}, 2 worker processes`);
