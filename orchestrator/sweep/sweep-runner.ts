@@ -133,5 +133,6 @@ export async function runSweep(input: SweepRunInput): Promise<SweepCounts & { in
     wake = null;
   }
   await transport.close(interrupted ? 'interrupted' : 'graceful');
-  return { ...counts, interrupted };
+  // A Ctrl-C after the last submit that the embedded transport still saw through to the end interrupted nothing.
+  return { ...counts, interrupted: interrupted && counts.done < counts.total };
 }
