@@ -58,6 +58,29 @@ describe('workers and queues through Redis', () => {
     expect(chunkStarts([worker]).size).toBe(18);
   });
 
+  it('--max-queued bounds the chunks in Redis that are not committed; the orchestrator tops up as commits land', async () => {
+    const gate = tmp.file('gate');
+    const env = gatedEnv(gate);
+    const worker = ctx.worker({ env });
+    await worker.waitForStderr(/ready: model version/);
+    const db = tmp.file('max-queued.sqlite');
+    const run = ctx.start(['run', gatedSpec(tmp.path, 'lantern-max-queued'), '--db', db, ...ctx.args, '--max-queued', '5', '--json'], { env });
+    // Points 0-2 committed, chunk 3 held at the gate: chunks 3-7 are the five in Redis, 8-17 not added yet.
+    await worker.waitForStderr(/chunk 3 of [0-9a-f]{12}: started/);
+    let seen: z.infer<typeof statusJson>['redis'] | null = null;
+    await waitFor(async () => {
+      if (run.done) throw new Error(`run exited:\n${run.stderr()}`);
+      const status = await runCliAsync(['status', '--db', db, '--redis', ctx.redis.url, '--redis-prefix', ctx.prefix, '--json']);
+      seen = statusJson.parse(JSON.parse(status.stdout)).redis;
+      return seen.chunks.waiting + seen.chunks.active === 5 && seen.chunks.completed === 3;
+    }, { timeoutMs: 60_000, what: () => `5 uncommitted chunks in Redis; saw ${JSON.stringify(seen)}` });
+    openGate(gate);
+    const r = await run.exited;
+    expect(r.status, r.stderr).toBe(0);
+    expect(sweepSummary.parse(JSON.parse(r.stdout))).toEqual({ done: 18, failed: 0, total: 18, committed: 18, interrupted: false });
+    expect(chunkStarts([worker]).size).toBe(18);
+  });
+
   it('Ctrl-C leaves queued chunks in Redis; cancel refuses while a run holds the database, then removes them; resume finishes', async () => {
     const gate = tmp.file('gate');
     openGate(gate);
