@@ -3,34 +3,16 @@
  * outputs as the embedded transport; `kill -9` of a worker holding a chunk (seen in its log, after rows were
  * committed) costs time, not results: its chunk returns through stalled-job recovery.
  */
-import { afterEach, beforeEach, describe, expect, it } from 'vitest';
-import { z } from 'zod';
-import { runCli, startCli, type CliProcess } from '../support/cli.js';
-import { startTestRedis, uniquePrefix, type TestRedis } from '../support/redis-harness.js';
+import { describe, expect, it } from 'vitest';
+import { runCli } from '../support/cli.js';
+import { sweepSummary as summary, useRedisSweep } from '../support/redis-sweep.js';
 import { deterministicRows, resultCount, resultsPerPoint } from '../support/sweep-db.js';
 import { gridSpec, writeSpec } from '../support/sweep-specs.js';
 import { useTempDir } from '../support/temp-dir.js';
 import { waitFor } from '../support/wait.js';
 
 const tmp = useTempDir();
-let redis: TestRedis;
-const procs: CliProcess[] = [];
-beforeEach(async () => {
-  redis = await startTestRedis();
-});
-afterEach(async () => {
-  await Promise.all(procs.splice(0).map((p) => p.killGroup()));
-  await redis.stop();
-});
-
-const summary = z.object({ done: z.number(), failed: z.number(), total: z.number(), committed: z.number(), interrupted: z.boolean() });
-const FAST = ['--lock-ms', '2000', '--stalled-ms', '1000'];
-
-function worker(prefix: string, extra: string[] = []): CliProcess {
-  const p = startCli(['work', '--redis', redis.url, '--redis-prefix', prefix, '--concurrency', '1', '--verbose', ...FAST, ...extra], { group: true });
-  procs.push(p);
-  return p;
-}
+const ctx = useRedisSweep();
 
 describe('sweeps through Redis', () => {
   it('two worker processes store exactly what the embedded transport stores', async () => {
@@ -38,14 +20,13 @@ describe('sweeps through Redis', () => {
     const embedded = runCli(['run', spec, '--db', tmp.file('embedded.sqlite'), '--workers', '2', '--json']);
     expect(embedded.status, embedded.stderr).toBe(0);
 
-    const prefix = uniquePrefix('e2e');
-    const workers = [worker(prefix), worker(prefix)];
+    const prefix = ctx.prefix;
+    const workers = [ctx.worker(), ctx.worker()];
     await Promise.all(workers.map((w) => w.waitForStderr(/ready: model version/)));
-    const run = startCli(['run', spec, '--db', tmp.file('redis.sqlite'), '--redis', redis.url, '--redis-prefix', prefix, ...FAST, '--json'], { group: true });
-    procs.push(run);
+    const run = ctx.start(['run', spec, '--db', tmp.file('redis.sqlite'), ...ctx.args, '--json']);
     const r = await run.exited;
     expect(r.status, r.stderr).toBe(0);
-    expect(r.stderr).toContain(`redis (redis 127.0.0.1:${redis.port} db 0, prefix ${prefix})`);
+    expect(r.stderr).toContain(`redis (redis 127.0.0.1:${ctx.redis.port} db 0, prefix ${prefix})`);
     expect(summary.parse(JSON.parse(r.stdout))).toEqual({ done: 24, failed: 0, total: 24, committed: 24, interrupted: false });
     // The workers (not this process) ran the chunks: every one of the 12 had its results sent by a worker.
     const sent = workers.reduce((n, w) => n + (w.stderr().match(/chunk \d+ of [0-9a-f]{12}: results sent/g)?.length ?? 0), 0);
@@ -56,7 +37,7 @@ describe('sweeps through Redis', () => {
     expect(reference.checkpoints).toHaveLength(48);
     expect(deterministicRows(tmp.file('redis.sqlite'))).toEqual(reference);
     // A finished sweep leaves nothing of its own in Redis (the running workers keep their heartbeat and control keys).
-    const keys = redis.cli(['--scan', '--pattern', `${prefix}:*`]).split('\n').filter((k) => k !== '' && !k.includes(':disksweep:worker:') && !k.startsWith(`${prefix}:control:`)); // the workers' own keys
+    const keys = ctx.redis.cli(['--scan', '--pattern', `${prefix}:*`]).split('\n').filter((k) => k !== '' && !k.includes(':disksweep:worker:') && !k.startsWith(`${prefix}:control:`)); // the workers' own keys
     expect(keys).toEqual([]);
   });
 
@@ -65,12 +46,10 @@ describe('sweeps through Redis', () => {
     const embedded = runCli(['run', spec, '--db', tmp.file('embedded.sqlite'), '--workers', '2', '--json']);
     expect(embedded.status, embedded.stderr).toBe(0);
 
-    const prefix = uniquePrefix('kill');
-    const victim = worker(prefix);
+    const victim = ctx.worker();
     await victim.waitForStderr(/ready: model version/);
     const db = tmp.file('redis.sqlite');
-    const run = startCli(['run', spec, '--db', db, '--redis', redis.url, '--redis-prefix', prefix, ...FAST, '--json'], { group: true });
-    procs.push(run);
+    const run = ctx.start(['run', spec, '--db', db, ...ctx.args, '--json']);
     // Observed state: a few rows committed and a chunk started (not finished) in the victim's own log.
     await waitFor(() => resultCount(db) >= 3, { timeoutMs: 60_000, what: () => `3 committed rows; worker log:\n${victim.stderr()}` });
     await waitFor(() => {
@@ -79,7 +58,7 @@ describe('sweeps through Redis', () => {
     }, { timeoutMs: 30_000, what: () => `the victim to hold a chunk; its log:\n${victim.stderr()}` });
     const killed = await victim.killGroup('SIGKILL');
     expect(killed.signal).toBe('SIGKILL');
-    const survivor = worker(prefix);
+    const survivor = ctx.worker();
     const r = await run.exited;
     expect(r.status, r.stderr).toBe(0);
     expect(summary.parse(JSON.parse(r.stdout))).toMatchObject({ done: 30, failed: 0, total: 30, interrupted: false });
