@@ -13,7 +13,7 @@ import { ResultCommitter } from '../sweep/result-committer.js';
 import { createEmbeddedTransport } from '../transport/embedded-transport.js';
 import { redact } from '../../shared/redact.js';
 import type { Transport } from '../transport/transport.js';
-import { redisSettings, type RedisFlags, type RedisSettings } from './redis-flags.js';
+import { redisFlagsForCommand, redisSettings, type RedisFlags, type RedisSettings } from './redis-flags.js';
 
 export interface OpenTransportInput {
   /** From `checkRedis`: undefined for the embedded transport. */
@@ -56,11 +56,9 @@ export async function openTransport(input: OpenTransportInput): Promise<Transpor
   if (settings === undefined) return createEmbeddedTransport({ threads: input.workers });
   const { createRedisTransport } = await import('../transport/redis-transport.js');
   const { target } = settings;
-  const prefixFlag = target.prefix === 'disksweep' ? '' : ` --redis-prefix ${target.prefix}`;
-  const passwordPart = settings.hasPassword ? ' --redis-password-file FILE' : '';
   const transport = await createRedisTransport({
     target, sweepId: input.plan.sweepId, modelVersion: MODEL_VERSION, maxQueued: settings.maxQueued, lockMs: settings.lockMs,
-    stalledMs: settings.stalledMs, log, noWorkerHintS: testSeconds('DISKSWEEP_TEST_NO_WORKER_S'), workerCommand: `disksweep work --redis '${settings.publicUrl}'${passwordPart}${prefixFlag}`,
+    stalledMs: settings.stalledMs, log, noWorkerHintS: testSeconds('DISKSWEEP_TEST_NO_WORKER_S'), workerCommand: `disksweep work ${redisFlagsForCommand(settings)}`,
   });
   const committer = new ResultCommitter(input.plan.source, input.store);
   await transport.drain((outcome) => committer.commit(outcome));

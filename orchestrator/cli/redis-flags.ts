@@ -73,6 +73,16 @@ export function redisSettings(opts: RedisFlags, warn: (line: string) => void): R
   };
 }
 
+/**
+ * The flags that reach this Redis again, for a command printed for copying (`disksweep work ...`, the resume
+ * hint): the URL without its password, `--redis-password-file FILE` when a password is in use, the prefix.
+ */
+export function redisFlagsForCommand(settings: RedisSettings): string {
+  const password = settings.hasPassword ? ' --redis-password-file FILE' : '';
+  const prefix = settings.target.prefix === 'disksweep' ? '' : ` --redis-prefix ${settings.target.prefix}`;
+  return `--redis '${settings.publicUrl}'${password}${prefix}`;
+}
+
 /** Add the Redis flags (and --max-queued) to `run` or `resume`. */
 export function withRedisOptions(command: Command): Command {
   for (const opt of [...redisOptions(), maxQueuedOption()]) command.addOption(opt);

@@ -23,7 +23,7 @@ import { formatDuration } from './progress.js';
 import { checkRedis, openTransport } from './open-transport.js';
 import { lockStore } from './lock-store.js';
 import { redisStatus } from './redis-commands.js';
-import { redisOptions, withRedisOptions, type RedisFlags, type RedisSettings } from './redis-flags.js';
+import { redisFlagsForCommand, redisOptions, withRedisOptions, type RedisFlags, type RedisSettings } from './redis-flags.js';
 
 export const EXIT_INTERRUPTED = 130;
 
@@ -87,7 +87,7 @@ async function runPlanned(store: SweepStore, plan: SweepPlan, chunkSize: number,
   const r = await executeSweep({ store, plan, chunkSize, hasResult, transport, progressStream: process.stderr, handleSignals: true });
   // The resume hint goes to stderr: stdout carries the summary (JSON with --json) and may be redirected, and
   // the person who pressed Ctrl-C must see how to go on.
-  if (r.interrupted) process.stderr.write(`interrupted: resume with  ${resumeCommand(store, plan)}\n`);
+  if (r.interrupted) process.stderr.write(`interrupted: resume with  ${resumeCommand(store, plan)}${redis === undefined ? '' : ` ${redisFlagsForCommand(redis)}`}\n`);
   write(json, { sweep_id: plan.sweepId, name: plan.spec.name, db: dbFile, ...r, reused }, runSummary(plan, dbFile, r, reused));
   return r.interrupted ? EXIT_INTERRUPTED : 0;
 }

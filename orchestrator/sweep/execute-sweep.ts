@@ -31,7 +31,7 @@ export async function executeSweep(o: ExecuteOptions): Promise<ExecuteResult> {
   const onSignal = (): void => {
     signals++;
     if (signals === 1) {
-      o.progressStream.write('\nstopping: finishing the chunks in flight (press Ctrl-C again to stop at once)\n');
+      o.progressStream.write(`\nstopping: ${o.transport.interruptNote ?? 'finishing the chunks in flight'} (press Ctrl-C again to stop at once)\n`);
       controller.abort();
     } else {
       // Committed results are safe in SQLite; what was in flight simply has no result and is rerun by resume.

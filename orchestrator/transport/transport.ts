@@ -14,6 +14,8 @@ export type CloseMode = 'graceful' | 'interrupted' | 'immediate';
 export interface Transport {
   /** One line for logs and progress, e.g. "embedded, 2 threads". */
   readonly description: string;
+  /** What the first Ctrl-C does with work in flight, for the message (default: finishing the chunks in flight). */
+  readonly interruptNote?: string;
   /** Chunks outstanding that keep every worker busy; the runner submits up to this many ahead of commits. */
   readonly window: number;
   /** Hand a chunk over (returns when the transport has taken it, not when it is done). */

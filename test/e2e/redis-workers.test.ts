@@ -99,6 +99,8 @@ describe('workers and queues through Redis', () => {
 
     const stopped = await run.killGroup('SIGINT');
     expect(stopped.status, stopped.stderr).toBe(130);
+    expect(stopped.stderr).toContain('stopping: committing the results in hand; queued chunks stay in Redis');
+    expect(stopped.stderr).toContain(`interrupted: resume with  disksweep resume --db ${db} --redis '${ctx.redis.url}' --redis-prefix ${ctx.prefix}`);
     expect(jobKeys().length).toBeGreaterThanOrEqual(18); // still there for workers and a later resume
 
     const cancelled = await runCliAsync(['cancel', '--db', db, '--redis', ctx.redis.url, '--redis-prefix', ctx.prefix, '--json']);
