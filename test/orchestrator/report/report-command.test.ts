@@ -6,7 +6,7 @@
  */
 import { existsSync, mkdirSync, readFileSync, statSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { pathToFileURL } from 'node:url';
+import { fileURLToPath, pathToFileURL } from 'node:url';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { safeFileStem } from '../../../orchestrator/report/report-files.js';
 import { runCli } from '../../support/cli.js';
@@ -105,8 +105,11 @@ const PAGE_INFO = `({
 describe('disksweep report in headless Chromium', () => {
   it('renders every plot with nonzero size, logs no error, fetches nothing, and is captured', async () => {
     const page = pathToFileURL(join(out, 'index.html')).href;
-    // Kept after the test (its path is printed) so a person can look at the page as rendered.
-    const shot = join(makeTempDir('disksweep-report-shot-'), 'report.png');
+    // Kept after the test (its path is printed) so a person can look at the page as rendered; one fixed,
+    // git-ignored file overwritten by each run, so runs do not pile up screenshots in the temp directory.
+    const shotDir = fileURLToPath(new URL('../../../test-output/', import.meta.url));
+    mkdirSync(shotDir, { recursive: true });
+    const shot = join(shotDir, 'report-screenshot.png');
     const seen = await withChromium(async (context) => {
       const tab = await context.newPage();
       const problems: string[] = [];
