@@ -64,7 +64,7 @@ export async function startQueueWorker(o: QueueWorkerOptions): Promise<QueueWork
   const connection = bullConnection(o.target.connection);
   const pool: ChunkPool = createChunkPool(o.threads);
   const runner = poisonAwareRunner(pool, { minMs: o.watchdogMinMs });
-  const control = new Queue('control', { connection, prefix: o.target.prefix });
+  const control = new Queue('control', { connection, prefix: o.target.prefix, skipMetasUpdate: true });
   control.on('error', (e) => logError('redis', e));
   const sweeps = new Map<string, SweepWorker>();
   const otherVersions = new Set<string>();
@@ -79,9 +79,9 @@ export async function startQueueWorker(o: QueueWorkerOptions): Promise<QueueWork
   }
 
   function startSweep(chunkQueue: string, sweepId: string): void {
-    const results = new Queue(resultsQueueName(sweepId, version), { connection, prefix: o.target.prefix });
+    const results = new Queue(resultsQueueName(sweepId, version), { connection, prefix: o.target.prefix, skipMetasUpdate: true });
     results.on('error', (e) => logError('redis', e));
-    const queue = new Queue(chunkQueue, { connection, prefix: o.target.prefix });
+    const queue = new Queue(chunkQueue, { connection, prefix: o.target.prefix, skipMetasUpdate: true });
     const entry: SweepWorker = {
       worker: undefined as unknown as Worker, // set below, once the processor that updates this entry exists
       queue, results, lastActivity: Date.now(), active: 0,
@@ -134,6 +134,15 @@ export async function startQueueWorker(o: QueueWorkerOptions): Promise<QueueWork
     if (entry === undefined) return;
     sweeps.delete(name);
     await entry.worker.close();
+    // Until that close, the worker's stalled-job check kept re-creating <queue>:meta (no TTL) and
+    // :stalled-check, even after the orchestrator obliterated the queue. A queue gone from the registry has
+    // been obliterated (graceful end or cancel), so its leftovers are ours to remove.
+    try {
+      const client = await control.client;
+      if ((await client.hexists(registryKey(o.target.prefix), name)) === 0) await client.del(entry.queue.keys.meta, entry.queue.keys['stalled-check']);
+    } catch (error) {
+      logError('redis', error); // Redis away: nothing to tidy, and the next start obliterates anyway
+    }
     await Promise.allSettled([entry.queue.close(), entry.results.close()]);
     o.log(`sweep of queue ${name} is no longer registered: stopped taking its chunks`);
   }

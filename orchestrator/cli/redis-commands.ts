@@ -9,7 +9,7 @@ import type { SweepRecord } from '../store/index.js';
 import { pickSweep } from '../store/pick-sweep.js';
 import type { SweepInRedis } from '../transport/redis-inspect.js';
 import { lockStore } from './lock-store.js';
-import { redisOptions, redisSettings, type RedisFlags } from './redis-flags.js';
+import { redisConnectionOptions, redisSettings, type RedisFlags } from './redis-flags.js';
 
 const warn = (line: string): void => void process.stderr.write(redact(line) + '\n');
 
@@ -56,9 +56,9 @@ async function cancelAction(opts: CancelFlags): Promise<number> {
 export function cancelCommand(): Command {
   const c = new Command('cancel').description('remove a sweep\'s chunk jobs and results queue from Redis (workers stop taking it)')
     .requiredOption('--db <file>', 'the SQLite database of the sweep').option('--sweep <id-or-name>', 'which sweep, when the database holds several').option('--json', 'print one JSON object');
-  for (const opt of redisOptions()) c.addOption(opt);
+  for (const opt of redisConnectionOptions()) c.addOption(opt);
   return c
-    .addHelpText('after', '\nExample:\n  disksweep cancel --db corvid.sqlite --redis redis://queue-host:6379\n\nStop the `run` first (Ctrl-C): cancel takes the database lock and refuses while a run holds it.\nResults not yet committed are dropped with the queue; `resume` runs those points again.')
+    .addHelpText('after', '\nExample:\n  disksweep cancel --db corvid-rift-cores.sqlite --redis redis://queue-host:6379\n\nStop the `run` first (Ctrl-C): cancel takes the database lock and refuses while a run holds it.\nResults not yet committed are dropped with the queue; `resume` runs those points again.')
     .action(async (opts: CancelFlags) => {
       process.exitCode = await cancelAction(opts);
     });

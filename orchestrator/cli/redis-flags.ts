@@ -17,10 +17,16 @@ export interface RedisFlags {
   stalledMs?: string;
 }
 
-export const redisOptions = (): Option[] => [
-  new Option('--redis <url>', 'run chunks through this Redis (redis:// or rediss:// for TLS); or set DISKSWEEP_REDIS_URL'),
+/** Where the Redis is and how to log in: every command that talks to Redis. */
+export const redisConnectionOptions = (): Option[] => [
+  new Option('--redis <url>', 'the Redis that carries the sweep\'s chunks (redis://, or rediss:// for TLS); or set DISKSWEEP_REDIS_URL'),
   new Option('--redis-password-file <file>', 'read the Redis password from this file (keeps it off the command line)'),
   new Option('--redis-prefix <prefix>', 'key prefix in Redis (default: disksweep, or DISKSWEEP_REDIS_PREFIX)'),
+];
+
+/** The connection flags and the lock tuning: commands that run chunks (run, resume, work). */
+export const redisOptions = (): Option[] => [
+  ...redisConnectionOptions(),
   new Option('--lock-ms <ms>', 'chunk lock duration: a dead worker\'s chunk is taken again after about this long (default 30000)'),
   new Option('--stalled-ms <ms>', 'how often workers look for chunks of dead workers (default 30000)'),
 ];

@@ -23,7 +23,7 @@ import { formatDuration } from './progress.js';
 import { checkRedis, openTransport } from './open-transport.js';
 import { lockStore } from './lock-store.js';
 import { redisStatus } from './redis-commands.js';
-import { redisFlagsForCommand, redisOptions, withRedisOptions, type RedisFlags, type RedisSettings } from './redis-flags.js';
+import { redisConnectionOptions, redisFlagsForCommand, withRedisOptions, type RedisFlags, type RedisSettings } from './redis-flags.js';
 
 export const EXIT_INTERRUPTED = 130;
 
@@ -274,7 +274,7 @@ const exitWith = <A extends unknown[]>(fn: Action<A>) => async (...args: A): Pro
 
 /** `status` takes the connection flags only (no lock or queue tuning). */
 function withRedisStatusOptions(command: Command): Command {
-  for (const opt of redisOptions()) if (opt.long !== '--lock-ms' && opt.long !== '--stalled-ms') command.addOption(opt);
+  for (const opt of redisConnectionOptions()) command.addOption(opt);
   return command;
 }
 

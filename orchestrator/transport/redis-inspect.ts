@@ -31,8 +31,9 @@ export const CONNECT_TIMEOUT_MS = 10_000;
 /** Open both queues of a sweep, run `fn`, close them; a Redis error becomes a redacted DisksweepError. */
 async function withQueues<T>(target: RedisTarget, sweepId: string, modelVersion: string, fn: (chunks: Queue, results: Queue) => Promise<T>): Promise<T> {
   const connection = bullConnection(target.connection);
-  const chunks = new Queue(chunkQueueName(sweepId, modelVersion), { connection, prefix: target.prefix });
-  const results = new Queue(resultsQueueName(sweepId, modelVersion), { connection, prefix: target.prefix });
+  // Read-only: a status call must not leave queue metadata behind in a Redis (it may hold no such sweep).
+  const chunks = new Queue(chunkQueueName(sweepId, modelVersion), { connection, prefix: target.prefix, skipMetasUpdate: true });
+  const results = new Queue(resultsQueueName(sweepId, modelVersion), { connection, prefix: target.prefix, skipMetasUpdate: true });
   const ignore = (): void => undefined; // awaitRedis reports connection errors; later ones reject the command
   chunks.on('error', ignore);
   results.on('error', ignore);

@@ -70,7 +70,7 @@ describe('crash points of the results path', () => {
     const lastChunk = pushed[pushed.length - 1];
     expect(pushed).toHaveLength(3); // two passed the crash point; the third pushed its results, then died
 
-    const survivor = ctx.worker({ env });
+    const survivor = ctx.worker({ env }, ['--lock-ms', '20000']); // its own locks never lapse: each chunk starts once
     const r = await run.exited;
     expect(r.status, r.stderr).toBe(0);
     expect(sweepSummary.parse(JSON.parse(r.stdout))).toEqual({ done: 18, failed: 0, total: 18, committed: 18, interrupted: false });

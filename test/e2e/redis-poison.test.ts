@@ -24,7 +24,7 @@ async function poisonSweep(name: string, poison: number): Promise<{ statuses: Ma
     vary: { alpha_active: { values: [0.001, 0.002, 0.003, 0.005, 0.007, 0.01, poison, 0.03] } },
     chunks: { size: 4 },
   });
-  const env = { ...faultModelEnv(), DISKSWEEP_TEST_WATCHDOG_MS: '500' };
+  const env = { ...faultModelEnv(), DISKSWEEP_TEST_WATCHDOG_MS: '3000' } // well above a cold thread's start and import on a loaded machine;
   const worker = ctx.worker({ env });
   await worker.waitForStderr(/ready: model version/);
   const db = tmp.file(`${name}.sqlite`);

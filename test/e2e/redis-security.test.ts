@@ -8,7 +8,7 @@ import { randomBytes } from 'node:crypto';
 import { existsSync, readFileSync, writeFileSync } from 'node:fs';
 import { afterAll, describe, expect, it } from 'vitest';
 import { runCliAsync, type CliRun } from '../support/cli.js';
-import { dumpKeys, freePort } from '../support/redis-harness.js';
+import { dumpKeys } from '../support/redis-harness.js';
 import { chunkStarts, FAST, gatedEnv, gatedSpec, openGate, sweepSummary, useRedisSweep } from '../support/redis-sweep.js';
 import { makeTestCerts, type TestCerts } from '../support/tls-certs.js';
 import { makeTempDir, removeTempDir, useTempDir } from '../support/temp-dir.js';
@@ -69,7 +69,9 @@ describe('a password-protected Redis', () => {
     seen.push(badWorker);
     expect(badWorker.status, badWorker.stderr).toBe(2);
     // Nothing listens: exit 1 after the connection timeout, naming the host.
-    const closed = await freePort('127.0.0.1');
+    // Port 1 (tcpmux): privileged and unused here, so no other test's Redis can be listening on it, as a
+    // port freed a moment ago could be.
+    const closed = 1;
     const refused = await runCliAsync(['run', spec2, '--db', tmp.file('never.sqlite'), '--redis', `redis://:${SECRET}@127.0.0.1:${closed}`, ...base], { env });
     seen.push(refused);
     expect(refused.status, refused.stderr).toBe(1);

@@ -36,7 +36,9 @@ describe('sweeps through Redis', () => {
     expect(reference.results.map((x) => x.status)).toEqual(Array(24).fill('ok'));
     expect(reference.checkpoints).toHaveLength(48);
     expect(deterministicRows(tmp.file('redis.sqlite'))).toEqual(reference);
-    // A finished sweep leaves nothing of its own in Redis (the running workers keep their heartbeat and control keys).
+    // A finished sweep leaves nothing of its own in Redis (the running workers keep their heartbeat and control keys),
+    // once each worker has seen the sweep leave the registry and stopped its consumer (it tidies up after it).
+    await Promise.all(workers.map((w) => w.waitForStderr(/is no longer registered: stopped taking its chunks/)));
     const keys = ctx.redis.cli(['--scan', '--pattern', `${prefix}:*`]).split('\n').filter((k) => k !== '' && !k.includes(':disksweep:worker:') && !k.startsWith(`${prefix}:control:`)); // the workers' own keys
     expect(keys).toEqual([]);
   });

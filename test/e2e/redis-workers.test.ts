@@ -41,11 +41,16 @@ describe('workers and queues through Redis', () => {
     expect(run.stderr()).toContain(`disksweep work --redis '${ctx.redis.url}' --redis-prefix ${ctx.prefix}`);
     await stranger.waitForStderr(/needs model version .*this worker runs 0\.0\.1-old: not taking its chunks/);
 
-    const status = await runCliAsync(['status', '--db', db, '--redis', ctx.redis.url, '--redis-prefix', ctx.prefix, '--json']);
-    expect(status.status, status.stderr).toBe(0);
-    const seen = statusJson.parse(JSON.parse(status.stdout)).redis;
+    // The hint can come before the last addBulk batch lands on a loaded machine: wait for all 18 to be queued.
+    let seen: z.infer<typeof statusJson>['redis'] | undefined;
+    await waitFor(async () => {
+      const status = await runCliAsync(['status', '--db', db, '--redis', ctx.redis.url, '--redis-prefix', ctx.prefix, '--json']);
+      expect(status.status, status.stderr).toBe(0);
+      seen = statusJson.parse(JSON.parse(status.stdout)).redis;
+      return seen.chunks.waiting === 18;
+    }, { timeoutMs: 30_000, everyMs: 200, what: () => `18 waiting chunks in status (last: ${JSON.stringify(seen?.chunks)})` });
+    if (seen === undefined) throw new Error('unreachable: waitFor returned without a status');
     expect(seen.registered).toBe(true);
-    expect(seen.chunks.waiting).toBe(18);
     expect(seen.workers).toEqual([expect.objectContaining({ model_version: '0.0.1-old', takesThisSweep: false, chunks_done: 0, pid: stranger.pid })]);
     const text = await runCliAsync(['status', '--db', db, '--redis', ctx.redis.url, '--redis-prefix', ctx.prefix]);
     expect(text.stdout).toMatch(/model 0\.0\.1-old, 1 thread, 0 chunks done, .*another model version: does not take this sweep's chunks/);

@@ -75,11 +75,15 @@ export async function startTestRedis(options: RedisServerOptions = {}): Promise<
   }
   const dir = mkdtempSync(join(tmpdir(), 'disksweep-redis-'));
   const bind = options.bind ?? ['127.0.0.1'];
-  const port = await freePort(bind[0]);
-  const args = ['--bind', ...bind, '--save', '', '--appendonly', 'no', '--dir', dir, '--protected-mode', 'no'];
-  if (options.tls === undefined) args.push('--port', String(port));
-  else args.push('--port', '0', '--tls-port', String(port), '--tls-cert-file', options.tls.cert, '--tls-key-file', options.tls.key, '--tls-ca-cert-file', options.tls.ca, '--tls-auth-clients', 'no');
-  if (options.password !== undefined) args.push('--requirepass', options.password);
+  let port = 0;
+  let args: string[] = [];
+  const useFreePort = async (): Promise<void> => {
+    port = await freePort(bind[0]);
+    args = ['--bind', ...bind, '--save', '', '--appendonly', 'no', '--dir', dir, '--protected-mode', 'no'];
+    if (options.tls === undefined) args.push('--port', String(port));
+    else args.push('--port', '0', '--tls-port', String(port), '--tls-cert-file', options.tls.cert, '--tls-key-file', options.tls.key, '--tls-ca-cert-file', options.tls.ca, '--tls-auth-clients', 'no');
+    if (options.password !== undefined) args.push('--requirepass', options.password);
+  };
   let child: ChildProcess | null = null;
   let log = '';
 
@@ -110,7 +114,17 @@ export async function startTestRedis(options: RedisServerOptions = {}): Promise<
     child = null;
   };
 
-  await launch();
+  // The probe socket of freePort is closed before redis-server binds, so a server of another test file may
+  // take the port in between: then start again on another one (only the first start; restarts keep theirs).
+  for (let attempt = 1; ; attempt++) {
+    await useFreePort();
+    try {
+      await launch();
+      break;
+    } catch (error) {
+      if (attempt >= 5 || !/Address already in use/i.test(log)) throw error;
+    }
+  }
   const cliBase = ['-h', bind[0], '-p', String(port), ...(options.tls === undefined ? [] : ['--tls', '--cacert', options.tls.ca]), ...(options.password === undefined ? [] : ['--no-auth-warning', '-a', options.password])];
   return {
     url: `${options.tls === undefined ? 'redis' : 'rediss'}://${bind[0]}:${port}`,
