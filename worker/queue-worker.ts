@@ -43,7 +43,11 @@ export interface QueueWorker {
   close(): Promise<void>;
 }
 
-const POLL_MS = 1000;
+/**
+ * How often the registry is read: a new sweep waits on average half of this before any worker takes a chunk, which
+ * cost a 4-s sweep ~10 % of its wall time at 1 s. One HGETALL of a small hash per worker is nothing to Redis.
+ */
+const POLL_MS = 200;
 const HEARTBEAT_MS = 5000;
 const HEARTBEAT_TTL_MS = 15_000;
 /** Recreate a BullMQ worker that has been idle this long while its queue has chunks waiting. */
