@@ -43,7 +43,7 @@ export function infallFromParams(p: ModelParams): InfallSetup & { rcFinal: numbe
  * Lynden-Bell & Pringle (1974) similarity profile at t = 0 (Hartmann et al. 1998, eq. 33 at T = 1):
  * Σ ∝ (R/R1)^{-γ} exp[−(R/R1)^{2−γ}], normalised so the discrete disk mass is exactly M_disk.
  */
-export function lbpInitialProfile(grid: DiskGrid, mDisk: number, r1: number, gamma: number): Float64Array {
+function lbpInitialProfile(grid: DiskGrid, mDisk: number, r1: number, gamma: number): Float64Array {
   const sigma = new Float64Array(grid.n);
   let mass = 0;
   for (let i = 0; i < grid.n; i++) {
@@ -107,12 +107,12 @@ export function ionizationOptionsFromParams(p: ModelParams, nCells: number): Ion
 }
 
 /** L_X, erg s^-1: fixed, or a ratio of the photospheric luminosity. Shared by winds and ionization. */
-export function xrayLuminosity(p: ModelParams): number {
+function xrayLuminosity(p: ModelParams): number {
   return p.lx_scaling === 'l_phot' ? p.lx_over_lphot * lsunToErgS(p.l_phot_lsun) : p.lx_erg_s;
 }
 
 /** The winds that are on (scale or rate above zero), in cgs; null when none is. */
-export function windsFromParams(p: ModelParams): WindSetup | null {
+function windsFromParams(p: ModelParams): WindSetup | null {
   const winds: WindSetup = {
     xray: p.xray_wind_scale > 0 ? { lx: xrayLuminosity(p), scale: p.xray_wind_scale } : null,
     euv: p.euv_wind_scale > 0 ? { phi: p.phi_euv_s, scale: p.euv_wind_scale } : null,

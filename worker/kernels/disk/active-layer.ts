@@ -66,8 +66,6 @@ export const fixedColumnActiveLayer: ActiveLayerProvider<{ sigmaActiveFace: numb
   },
 };
 
-export const ACTIVE_LAYER_PROVIDERS = [uniformActiveLayer, fixedColumnActiveLayer] as const;
-
 /**
  * α_eff from the layered rule, without dividing by an empty cell: where Σ ≤ Σ_a the whole column is active.
  */

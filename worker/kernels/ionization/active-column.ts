@@ -138,7 +138,7 @@ export function evaluatePoint(ctx: ColumnContext, faceColumn: number, out: Point
 }
 
 /** ln(activity/threshold) at face column Σ_col: ≥ 0 where active. */
-export function activityMargin(ctx: ColumnContext, faceColumn: number, scratch: PointValues): number {
+function activityMargin(ctx: ColumnContext, faceColumn: number, scratch: PointValues): number {
   const a = evaluatePoint(ctx, faceColumn, scratch).activity;
   // Floored so that gas with no ionization at all (activity 0) still gives a finite number to interpolate on.
   return Math.max(Math.log(a) - ctx.lnThreshold, MARGIN_FLOOR);

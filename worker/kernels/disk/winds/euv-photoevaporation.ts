@@ -25,7 +25,7 @@ export function euvGravitationalRadius(mStar: number): number {
 }
 
 /** Σ̇ of the diffuse wind at R_g, g cm^-2 s^-1 (Hollenbach et al. 1994). */
-export function euvDiffuseSurfaceRateAtRg(mStar: number, phi: number): number {
+function euvDiffuseSurfaceRateAtRg(mStar: number, phi: number): number {
   const n0 = DIFFUSE_N0 * Math.sqrt(phi / 1e41) * (euvGravitationalRadius(mStar) / 1e14) ** -1.5;
   return 2 * n0 * M_HYDROGEN_CGS * EUV_SOUND_SPEED;
 }
