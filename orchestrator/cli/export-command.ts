@@ -15,6 +15,7 @@ import type { StoreReader, SweepRecord } from '../store/index.js';
 import { EXPORT_FORMATS, type ExportFormat } from '../export/table-writers.js';
 import { pickSweep } from '../store/pick-sweep.js';
 import { withReaderAsync } from '../store/read-access.js';
+import { unwritableFile } from './output-file.js';
 import { parseTargetFlags, withTargetOptions, type TargetFlags } from './target-flags.js';
 
 export interface ExportFlags extends TargetFlags {
@@ -51,8 +52,7 @@ async function openOut(path: string | undefined): Promise<{ out: Writable; finis
   try {
     await once(out, 'open');
   } catch (error) {
-    const code = (error as NodeJS.ErrnoException).code ?? 'error';
-    throw new DisksweepError('input/unwritable-file', `--out ${path}: cannot write the file (${code})`, { cause: error });
+    throw unwritableFile('--out', path, error);
   }
   return {
     out,

@@ -9,7 +9,12 @@ export function writeOutputFile(flag: string, path: string, data: string | Uint8
   try {
     writeFileSync(path, data);
   } catch (error) {
-    const code = (error as NodeJS.ErrnoException).code ?? 'error';
-    throw new DisksweepError('input/unwritable-file', `${flag} ${path}: cannot write the file (${code})`, { cause: error });
+    throw unwritableFile(flag, path, error);
   }
+}
+
+/** The exit-2 error for a file `flag` asked for that cannot be written (also for streams opened elsewhere). */
+export function unwritableFile(flag: string, path: string, error: unknown): DisksweepError {
+  const code = (error as NodeJS.ErrnoException).code ?? 'error';
+  return new DisksweepError('input/unwritable-file', `${flag} ${path}: cannot write the file (${code})`, { cause: error });
 }

@@ -141,6 +141,7 @@ describe('CSV and JSON lines', () => {
     const r = runCli(['export', db, '--format', 'csv', '--out', `${dir}/no/dir/x.csv`]);
     expect(r.status).toBe(2);
     expect(r.stderr).toContain('--out');
+    expect(r.stderr).toContain(`--out ${dir}/no/dir/x.csv: cannot write the file (ENOENT)`);
   });
 });
 
