@@ -24,7 +24,8 @@ const keyOrders = new Map<string, readonly string[]>();
 const quotedKeys = new Map<string, string>();
 
 function orderedKeys(keys: string[]): readonly string[] {
-  const shape = keys.join('\u0000');
+  // JSON text of the list, not a join: joined keys are ambiguous when a key holds the separator.
+  const shape = JSON.stringify(keys);
   const hit = keyOrders.get(shape);
   if (hit !== undefined) return hit;
   keys.sort();

@@ -66,6 +66,16 @@ describe('canonicalJson', () => {
     }
   });
 
+  it('keeps objects apart whose keys join to the same text', () => {
+    // Both key lists joined with U+0000 read "b\u0000a\u0000c": a cache keyed on that join would give the
+    // second object the first one's key order and drop its values.
+    const first = { b: 1, 'a\u0000c': 2 };
+    const second = { 'b\u0000a': 3, c: 4 };
+    expect(canonicalJson(first)).toBe(definition(first));
+    expect(canonicalJson(second)).toBe(definition(second));
+    expect(canonicalJson(second)).toBe('{"b\\u0000a":3,"c":4}');
+  });
+
   it('refuses what JSON cannot hold, and keeps the ids it has always given', () => {
     expect(() => canonicalJson({ a: Number.NaN })).toThrow(RangeError);
     expect(() => canonicalJson([Number.POSITIVE_INFINITY])).toThrow(RangeError);
