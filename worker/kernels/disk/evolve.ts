@@ -99,6 +99,9 @@ export interface EvolveSetup {
   readonly luminosity?: LuminositySetup;
 }
 
+// Step control (numerical choices, common practice, no source): the next step is dt × stepChange / change,
+// kept within [SHRINK_MIN, GROWTH_MAX] × dt; a try whose change exceeds REDO_FACTOR × stepChange is redone
+// shorter; after MAX_RETRIES redone tries of one step the run stops as step_collapse.
 const GROWTH_MAX = 2;
 const SHRINK_MIN = 0.25;
 const REDO_FACTOR = 4;

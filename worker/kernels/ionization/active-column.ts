@@ -144,6 +144,7 @@ function activityMargin(ctx: ColumnContext, faceColumn: number, scratch: PointVa
   return Math.max(Math.log(a) - ctx.lnThreshold, MARGIN_FLOOR);
 }
 
+/** Numerical floor, not physics: e^-700 is still a normal double (they end near e^-708). */
 const MARGIN_FLOOR = -700;
 
 export interface ActiveColumnResult {

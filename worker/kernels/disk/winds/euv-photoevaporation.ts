@@ -14,8 +14,9 @@ import { G_CGS, M_HYDROGEN_CGS } from '../../../../shared/constants.js';
 import type { DiskGrid } from '../grid.js';
 import { cellRatesFromCumulative } from './cumulative-table.js';
 
-/** Sound speed of the photoionized gas, cm s^-1 (T ≈ 1e4 K). */
+/** Sound speed of the photoionized gas, cm s^-1 (T ≈ 1e4 K; 10 km/s as in Hollenbach et al. 1994, from memory). */
 export const EUV_SOUND_SPEED = 1e6;
+/** n_0 at R_g for Φ = 1e41 s^-1 and R_g = 1e14 cm, cm^-3 (Hollenbach et al. 1994, from memory; see above). */
 const DIFFUSE_N0 = 5.7e4;
 const DIRECT = { c2: 0.235, a: 2.42, hOverR: 0.05, mu: 1.35, alphaB: 2.6e-13 } as const;
 
