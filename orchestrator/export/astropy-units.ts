@@ -34,5 +34,3 @@ export function astropyUnit(unit: string): string | null {
   }
   return u;
 }
-
-export const KNOWN_UNITS: readonly string[] = Object.keys(ASTROPY_UNITS);
