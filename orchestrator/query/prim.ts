@@ -19,8 +19,6 @@
 import { argsort } from './argsort.js';
 import { wilson } from './wilson.js';
 
-export { argsort } from './argsort.js';
-
 export interface PrimOptions {
   /** Peeling (and pasting) fraction alpha, in (0, 0.5). Default 0.05 (F&F recommend 0.05-0.10). */
   readonly alpha?: number;

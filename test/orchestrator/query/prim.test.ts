@@ -4,7 +4,8 @@
  * values of a discrete variable at once, and peeling stops at the minimum support beta0.
  */
 import { describe, expect, it } from 'vitest';
-import { argsort, chooseStep, pasteBox, prim } from '../../../orchestrator/query/prim.js';
+import { argsort } from '../../../orchestrator/query/argsort.js';
+import { chooseStep, pasteBox, prim } from '../../../orchestrator/query/prim.js';
 
 /** Mulberry32: a small seeded generator, so the synthetic data are the same on every run. */
 function rng(seed: number): () => number {
