@@ -27,10 +27,6 @@ export function sweepKeyRange(sweepKey: number): { readonly from: number; readon
   return { from: pointKeyOf(sweepKey, 0), to: pointKeyOf(sweepKey + 1, 0) };
 }
 
-export function pointIndexOfKey(pointKey: number): number {
-  return pointKey % POINTS_PER_SWEEP_KEY;
-}
-
 export function checkSweepKey(sweepKey: number): number {
   if (!Number.isSafeInteger(sweepKey) || sweepKey < 1 || sweepKey >= SWEEP_KEY_LIMIT) {
     throw new DisksweepError('internal/unexpected', `sweep key ${sweepKey} is outside 1 ... ${SWEEP_KEY_LIMIT - 1}`);
