@@ -4,13 +4,13 @@
  * they enter (a URL's password, a password file); URL userinfo is hidden whether registered or not.
  */
 
-const secrets = new Set<string>();
+/** Registered secrets, longest first (so a secret holding a shorter one is hidden whole); kept sorted here, not per call. */
+let secrets: readonly string[] = [];
 
 /** Register a secret (a password) so `redact` hides it wherever it appears, plain or percent-encoded. */
 export function registerSecret(secret: string | undefined): void {
   if (secret !== undefined && secret.length > 0) {
-    secrets.add(secret);
-    secrets.add(encodeURIComponent(secret));
+    secrets = [...new Set([...secrets, secret, encodeURIComponent(secret)])].sort((a, b) => b.length - a.length);
   }
 }
 
@@ -20,7 +20,7 @@ export function redact(text: string): string {
     const colon = userinfo.indexOf(':');
     return colon < 0 ? `${scheme}${userinfo}@` : `${scheme}${userinfo.slice(0, colon)}:***@`;
   });
-  for (const s of [...secrets].sort((a, b) => b.length - a.length)) out = out.split(s).join('***');
+  for (const s of secrets) out = out.split(s).join('***');
   return out;
 }
 
