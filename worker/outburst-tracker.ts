@@ -14,6 +14,9 @@ export interface OutburstSummary {
   firstStart: number | null;
 }
 
+/** Samples behind the window kept before they are dropped in one go (amortises the splice). */
+const DROP_AFTER = 4096;
+
 export class OutburstTracker {
   private readonly times: number[] = [0];
   private readonly masses: number[] = [0];
@@ -31,6 +34,13 @@ export class OutburstTracker {
     const from = t - this.window;
     if (from < 0) return;
     while (this.cursor + 1 < this.times.length && this.times[this.cursor + 1] <= from) this.cursor++;
+    if (this.cursor >= DROP_AFTER) {
+      // Samples before the cursor are never read again (the window only moves forward): drop them, so a run of
+      // a million steps keeps one window of history instead of every step.
+      this.times.splice(0, this.cursor);
+      this.masses.splice(0, this.cursor);
+      this.cursor = 0;
+    }
     const t0 = this.times[this.cursor];
     const t1 = this.times[this.cursor + 1];
     const m0 = this.masses[this.cursor];
