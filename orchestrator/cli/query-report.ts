@@ -2,6 +2,7 @@
  * How `disksweep query` presents a QueryAnswer: a terminal report (pass count, marginal tables with bar charts,
  * PRIM boxes with their trajectory, the constraint summary) or one JSON object with all of it.
  */
+import { parameterLabel } from '../query/index.js';
 import type { Marginal } from '../query/marginals.js';
 import type { BoxAnswer, QueryAnswer } from '../query/answer.js';
 import type { PrimStep } from '../query/prim.js';
@@ -24,7 +25,6 @@ const interval = (p: Proportion): string => (p.n === 0 ? '-' : `${pct(p.low)}-${
 
 function marginalBlock(m: Marginal): string {
   const p = m.parameter;
-  const unit = p.unit === '' || p.unit === '1' ? '' : ` [${p.unit}]`;
   const how = p.kind === 'choice' ? 'choice' : `${p.logSpace ? 'log' : p.scale === 'values' ? 'values' : 'linear'}, ${num(p.min)} to ${num(p.max)}`;
   const rows = m.bins.map((b) => [
     b.label ?? (m.binning === 'levels' ? num(b.from) : `${num(b.from)}-${num(b.to)}`),
@@ -35,7 +35,7 @@ function marginalBlock(m: Marginal): string {
     `|${bar(b.fraction)}|`,
   ]);
   const t = table(['value', 'n', 'pass', 'fraction', '95% interval', `pass fraction (0 to 100%)`.padEnd(BAR_WIDTH + 2)], rows);
-  return `${p.name}${unit} (${how}${m.binning === 'range' ? `, ${m.bins.length} ${p.logSpace ? 'log ' : ''}bins` : ''})\n${t}`;
+  return `${parameterLabel(p)} (${how}${m.binning === 'range' ? `, ${m.bins.length} ${p.logSpace ? 'log ' : ''}bins` : ''})\n${t}`;
 }
 
 /** At most `max` trajectory steps: evenly spread, always the first, the chosen and the last. */

@@ -9,7 +9,7 @@
  * - a range sampled otherwise (Latin hypercube, Sobol, random): `bins` equal bins over the range.
  */
 import { DisksweepError } from '../../shared/errors.js';
-import type { Evaluation, VariedParameter } from '../query/index.js';
+import { parameterLabel, type Evaluation, type VariedParameter } from '../query/index.js';
 import { heatMap } from '../plots/heat-map.js';
 import type { Figure } from '../plots/svg.js';
 import type { MapGrid } from '../plots/terminal-map.js';
@@ -48,7 +48,6 @@ export function edgesAround(values: readonly number[], toSpace: (v: number) => n
 }
 
 export function mapAxis(p: VariedParameter, bins: number, gridPlan: boolean): MapAxis {
-  const unit = p.unit === '' || p.unit === '1' ? '' : ` [${p.unit}]`;
   if (p.kind === 'choice') {
     const categories = (p.values ?? []).map(String);
     return { parameter: p, axis: 'linear', edges: Array.from({ length: categories.length + 1 }, (_, k) => k - 0.5), label: p.name, categories };
@@ -57,7 +56,7 @@ export function mapAxis(p: VariedParameter, bins: number, gridPlan: boolean): Ma
   const toSpace = log ? Math.log10 : (v: number) => v;
   const fromSpace = log ? (u: number) => 10 ** u : (u: number) => u;
   const axis: AxisKind = log ? 'log' : 'linear';
-  const label = `${p.name}${unit}`;
+  const label = parameterLabel(p);
   if (p.values !== null) return { parameter: p, axis, edges: edgesAround(p.values as number[], toSpace, fromSpace), label, categories: null };
   if (gridPlan && p.count !== null) {
     const n = p.count;

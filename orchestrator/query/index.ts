@@ -7,3 +7,4 @@ export { parseTarget, targetHelpLines, TARGETS, type TargetInvocation, type Targ
 export { parseFilter, MAX_FILTER_CHARS, MAX_FILTER_DEPTH, type Expr } from './parser.js';
 export { filterNameLines, BARE_NAMES, CHECKPOINT_NAMES, type FilterName } from './names.js';
 export type { SweepSpace } from './sweep-space.js';
+export { parameterLabel } from './sweep-space.js';

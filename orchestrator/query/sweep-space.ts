@@ -34,6 +34,11 @@ export interface VariedParameter {
   readonly logSpace: boolean;
 }
 
+/** A parameter's name with its unit, for axis labels and table headings: `m_disk_msun [M_sun]`, just the name when it has none (or is dimensionless). */
+export function parameterLabel(p: Pick<VariedParameter, 'name' | 'unit'>): string {
+  return p.unit === '' || p.unit === '1' ? p.name : `${p.name} [${p.unit}]`;
+}
+
 export interface SweepSpace {
   readonly parameters: readonly VariedParameter[];
   /** Checkpoint times (Myr, ascending) the sweep's models record (those up to the longest t_end_myr). */

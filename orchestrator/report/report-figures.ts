@@ -6,7 +6,7 @@
  */
 import type { QueryAnswer } from '../query/answer.js';
 import type { Marginal } from '../query/marginals.js';
-import type { Evaluation } from '../query/index.js';
+import { parameterLabel, type Evaluation } from '../query/index.js';
 import { edgesAround, gridHeatMap, passGrid, type PassGrid } from '../map/pass-grid.js';
 import { barChart, type Bar } from '../plots/bar-chart.js';
 import { linePlot } from '../plots/line-plot.js';
@@ -23,9 +23,8 @@ export function marginalFigure(m: Marginal, overall: number): Figure {
     lo: edges[k], hi: edges[k + 1], n: b.n,
     value: b.n === 0 ? null : b.fraction, errLo: b.n === 0 ? null : b.low, errHi: b.n === 0 ? null : b.high,
   }));
-  const unit = p.unit === '' || p.unit === '1' ? '' : ` [${p.unit}]`;
   return barChart({
-    title: `pass fraction by ${p.name}`, xLabel: `${p.name}${unit}`, yLabel: 'pass fraction', xAxis: log ? 'log' : 'linear', bars,
+    title: `pass fraction by ${p.name}`, xLabel: parameterLabel(p), yLabel: 'pass fraction', xAxis: log ? 'log' : 'linear', bars,
     xCategories: p.kind === 'choice' ? (p.values ?? []).map(String) : null,
     reference: Number.isFinite(overall) ? { value: overall, label: 'all selected points' } : undefined,
   });
