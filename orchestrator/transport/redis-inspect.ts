@@ -71,9 +71,11 @@ export async function listWorkers(queue: Queue, prefix: string): Promise<Heartbe
   do {
     const [next, keys] = await client.scan(cursor, { MATCH: heartbeatPattern(prefix), COUNT: 1000 });
     cursor = next;
-    for (const key of keys) {
-      const raw = await client.get(key);
-      if (raw === null) continue;
+    // The GETs of a SCAN page are sent together (one round trip), not one after another: the transport calls
+    // this every 2 s during a sweep. (BullMQ's client interface has no MGET.)
+    const values = await Promise.all(keys.map((key) => client.get(key)));
+    for (const raw of values) {
+      if (raw === null) continue; // expired between SCAN and MGET
       try {
         const parsed = heartbeatSchema.safeParse(JSON.parse(raw));
         if (parsed.success) out.push(parsed.data);
