@@ -84,6 +84,8 @@ async function runExport(dbFile: string, flags: ExportFlags): Promise<number> {
     // A bad --target or --where exits 2 here, before anything is written.
     const targets = parseTargetFlags(flags, false);
     const ev = targets.length === 0 && flags.where === undefined ? null : evaluateTargets(reader, { sweep: sweep.sweepId, targets, where: flags.where });
+    // The caveats query and map print (re-evaluated split thresholds, runs ending before t_max) hold for the pass column too.
+    for (const note of ev?.notes ?? []) process.stderr.write(`note: ${note}\n`);
     return exportSweep(reader, sweep, format, ev, flags.out);
   });
 }

@@ -172,6 +172,13 @@ describe('export with targets', () => {
     expect(pass.description).toContain('solar-split');
     expect(runCli(['export', db, '--format', 'csv', '--target', 'nope']).status).toBe(2);
   });
+
+  it('prints the notes of its targets, as query does: other split thresholds are re-evaluated from the series', () => {
+    const r = runCli(['export', db, '--format', 'csv', '--target', 'solar-split(f_m=0.995)']);
+    expect(r.status).toBe(0);
+    expect(r.stderr).toMatch(/note: solar-split\(f_m=0\.995.*: thresholds differ from those .*the models ran with/);
+    expect(r.stdout.split('\n')[0]).toMatch(/^point_id,/);
+  });
 });
 
 describe('units', () => {
