@@ -11,14 +11,13 @@ import Database from 'better-sqlite3';
 import { spawn, type ChildProcess } from 'node:child_process';
 import { writeFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { fileURLToPath } from 'node:url';
 import { createNetnsHosts, netnsUnavailable, removeStaleNetns, type NetnsLab } from '../support/netns.js';
 import { hasRedisServer, startTestRedis, uniquePrefix, type TestRedis } from '../support/redis-harness.js';
+import { waitFor } from '../support/wait.js';
 import { median, progress, sig } from './stats.js';
-import { EFFICIENCY_SPEC, NOOP_MODEL_PATH } from './sweep-bench.js';
+import { CLI_PATH, EFFICIENCY_SPEC, NOOP_MODEL_PATH } from './sweep-bench.js';
 import { withTempDirAsync } from './temp-files.js';
 
-const CLI_PATH = fileURLToPath(new URL('../../orchestrator/cli/main.js', import.meta.url));
 const ROUNDS = 3;
 const READY_TIMEOUT_MS = 30_000;
 const SWEEP_TIMEOUT_MS = 180_000;
@@ -44,12 +43,12 @@ function start(command: readonly string[], args: readonly string[], env: Record<
   return { child, stderr: () => err, seenAt: (pattern) => pieces.find((p) => pattern.test(p.text))?.t ?? null, exited };
 }
 
-async function until(what: string, p: Proc, pattern: RegExp, timeoutMs: number): Promise<void> {
-  const deadline = Date.now() + timeoutMs;
-  while (!pattern.test(p.stderr())) {
-    if (p.child.exitCode !== null || Date.now() > deadline) throw new Error(`${what}: no ${pattern} in its log:\n${p.stderr()}`);
-    await new Promise((resolve) => setTimeout(resolve, 50));
-  }
+/** Wait until `p`'s log matches `pattern`; fail at once if it exits first. */
+function until(what: string, p: Proc, pattern: RegExp, timeoutMs: number): Promise<void> {
+  return waitFor(() => {
+    if (p.child.exitCode !== null) throw new Error(`${what} exited before ${pattern} in its log:\n${p.stderr()}`);
+    return pattern.test(p.stderr());
+  }, { timeoutMs, everyMs: 50, what: () => `${what}: ${pattern} in its log:\n${p.stderr()}` });
 }
 
 interface Sweep {

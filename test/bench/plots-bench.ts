@@ -10,13 +10,12 @@
  */
 import { spawnSync } from 'node:child_process';
 import { existsSync } from 'node:fs';
-import { fileURLToPath } from 'node:url';
 import { gridHeatMap, passGrid } from '../../orchestrator/map/pass-grid.js';
 import { svgDocument } from '../../orchestrator/plots/svg.js';
 import type { QueryBenchExtra } from './query-bench.js';
 import { median, progress, sig } from './stats.js';
+import { CLI_PATH } from './sweep-bench.js';
 
-const CLI_PATH = fileURLToPath(new URL('../../orchestrator/cli/main.js', import.meta.url));
 export const MAP_GOAL_S = 2;
 const MAP_ARGS = ['--x', 'm_disk_msun', '--y', 'alpha_active', '--target', 'solar-split', '--bins', '12'];
 

@@ -15,7 +15,6 @@
  */
 import { spawn, type ChildProcess } from 'node:child_process';
 import { join } from 'node:path';
-import { fileURLToPath } from 'node:url';
 import { canonicalJson, contentHash } from '../../shared/hashing.js';
 import { MODEL_VERSION } from '../../shared/model-version.js';
 import { parseRedisTarget } from '../../shared/redis/redis-connection.js';
@@ -25,11 +24,11 @@ import { planSweep } from '../../orchestrator/sweep/sweep-plan.js';
 import { runSweep } from '../../orchestrator/sweep/sweep-runner.js';
 import { createRedisTransport } from '../../orchestrator/transport/redis-transport.js';
 import { hasRedisServer, startTestRedis, uniquePrefix, type TestRedis } from '../support/redis-harness.js';
+import { waitFor } from '../support/wait.js';
 import { median, progress, sig } from './stats.js';
-import { EFFICIENCY_SPEC, NOOP_MODEL_PATH, noopSpec, runSweepInProcess } from './sweep-bench.js';
+import { CLI_PATH, EFFICIENCY_SPEC, NOOP_MODEL_PATH, noopSpec, runSweepInProcess } from './sweep-bench.js';
 import { withTempDirAsync } from './temp-files.js';
 
-const CLI_PATH = fileURLToPath(new URL('../../orchestrator/cli/main.js', import.meta.url));
 const GOALS = { noop_points_per_s: 10_000, parallel_efficiency: 0.95 } as const;
 const EFFICIENCY_ROUNDS = 2;
 
@@ -53,11 +52,10 @@ async function startWorker(redis: TestRedis, prefix: string, model: string | nul
   const child = spawn(process.execPath, [CLI_PATH, 'work', '--redis', redis.url, '--redis-prefix', prefix, '--concurrency', '1'], { env, stdio: ['ignore', 'ignore', 'pipe'] });
   let err = '';
   child.stderr?.setEncoding('utf8').on('data', (s: string) => (err += s));
-  const deadline = Date.now() + 30_000;
-  while (!/ready: model version/.test(err)) {
-    if (child.exitCode !== null || Date.now() > deadline) throw new Error(`disksweep work did not get ready:\n${err}`);
-    await new Promise((r) => setTimeout(r, 50));
-  }
+  await waitFor(() => {
+    if (child.exitCode !== null) throw new Error(`disksweep work exited before it was ready:\n${err}`);
+    return /ready: model version/.test(err);
+  }, { timeoutMs: 30_000, everyMs: 50, what: () => `disksweep work to get ready:\n${err}` });
   return { child, stderr: () => err };
 }
 
@@ -177,11 +175,14 @@ async function memoryAtMaxQueued(): Promise<Record<string, unknown>> {
     const empty = usedMemory(redis);
     const controller = new AbortController();
     const spec = { ...noopSpec('bench-redis-memory', maxQueued * chunk * 2, chunk) };
-    const waitingKey = (): number => Number(redis.cli(['--scan', '--pattern', `${prefix}:chunks-*:wait`]).trim() === '' ? 0 : redis.cli(['llen', redis.cli(['--scan', '--pattern', `${prefix}:chunks-*:wait`]).trim()]).trim());
+    const chunksWaiting = (): number => {
+      const key = redis.cli(['--scan', '--pattern', `${prefix}:chunks-*:wait`]).trim();
+      return key === '' ? 0 : Number(redis.cli(['llen', key]).trim());
+    };
     let held = 0;
     const sweep = sweepThroughRedis(redis, prefix, spec, { maxQueued, signal: controller.signal });
     const deadline = Date.now() + 120_000;
-    while ((held = waitingKey()) < maxQueued && Date.now() < deadline) await new Promise((r) => setTimeout(r, 200));
+    while ((held = chunksWaiting()) < maxQueued && Date.now() < deadline) await new Promise((r) => setTimeout(r, 200));
     const used = usedMemory(redis) - empty;
     controller.abort();
     await sweep;

@@ -12,12 +12,10 @@ import Database from 'better-sqlite3';
 import { spawn } from 'node:child_process';
 import { readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { fileURLToPath } from 'node:url';
-import { NOOP_MODEL_PATH, noopSpec } from './sweep-bench.js';
+import { CLI_PATH, NOOP_MODEL_PATH, noopSpec } from './sweep-bench.js';
 import { progress, sig } from './stats.js';
 import { withTempDirAsync } from './temp-files.js';
 
-const CLI_PATH = fileURLToPath(new URL('../../orchestrator/cli/main.js', import.meta.url));
 const SAMPLE_MS = 250;
 /** After SIGINT, how long the run may take to stop before it is killed. */
 const SIGINT_GRACE_MS = 10_000;

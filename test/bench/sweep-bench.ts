@@ -26,6 +26,9 @@ import { withTempDirAsync } from './temp-files.js';
 /** The compiled no-op model beside this file in dist/ (DISKSWEEP_MODEL_MODULE for pool threads). */
 export const NOOP_MODEL_PATH = fileURLToPath(new URL('./noop-model.js', import.meta.url));
 
+/** The compiled CLI in dist/, for the sections that spawn `disksweep` processes. */
+export const CLI_PATH = fileURLToPath(new URL('../../orchestrator/cli/main.js', import.meta.url));
+
 export interface SweepRun {
   readonly points: number;
   readonly committed: number;
