@@ -79,7 +79,8 @@ interface Placement {
 
 /**
  * Steady-state commit rate (points/s) between the 10th and the 90th percentile of the results' commit times:
- * start-up (process, sweep discovery by the workers' 1-s poll) and the tail of the last chunks left out.
+ * start-up (process, sweep discovery by the workers' registry poll, POLL_MS in worker/queue-worker.ts) and the
+ * tail of the last chunks left out.
  */
 function steadyRate(dbFile: string): number {
   const db = new Database(dbFile, { readonly: true });
