@@ -28,3 +28,8 @@ export function redact(text: string): string {
 export function redactError(error: unknown): string {
   return redact(error instanceof Error ? error.message : String(error));
 }
+
+/** Write one line to stderr, redacted: the log of the commands that talk to Redis. */
+export function logRedacted(line: string): void {
+  process.stderr.write(redact(line) + '\n');
+}

@@ -11,7 +11,7 @@ import type { SweepStore } from '../store/index.js';
 import type { SweepPlan } from '../sweep/sweep-plan.js';
 import { ResultCommitter } from '../sweep/result-committer.js';
 import { createEmbeddedTransport } from '../transport/embedded-transport.js';
-import { redact } from '../../shared/redact.js';
+import { logRedacted as log } from '../../shared/redact.js';
 import type { Transport } from '../transport/transport.js';
 import { redisFlagsForCommand, redisSettings, type RedisFlags, type RedisSettings } from './redis-flags.js';
 
@@ -25,8 +25,6 @@ export interface OpenTransportInput {
   readonly store: SweepStore;
   readonly plan: SweepPlan;
 }
-
-const log = (line: string): void => void process.stderr.write(redact(line) + '\n');
 
 /** A test hook in whole seconds (nothing else sets it): how long `run` waits for a worker before its hint. */
 function testSeconds(name: string): number | undefined {

@@ -4,14 +4,12 @@
  */
 import { Command } from 'commander';
 import { DisksweepError } from '../../shared/errors.js';
-import { redact } from '../../shared/redact.js';
+import { logRedacted as warn } from '../../shared/redact.js';
 import type { SweepRecord } from '../store/index.js';
 import { pickSweep } from '../store/pick-sweep.js';
 import type { SweepInRedis } from '../transport/redis-inspect.js';
 import { lockStore } from './lock-store.js';
 import { redisConnectionOptions, redisSettings, type RedisFlags } from './redis-flags.js';
-
-const warn = (line: string): void => void process.stderr.write(redact(line) + '\n');
 
 /** What Redis holds for the sweep, as JSON data and text lines; undefined without --redis / DISKSWEEP_REDIS_URL. */
 export async function redisStatus(flags: RedisFlags, sweep: SweepRecord): Promise<{ data: SweepInRedis & { redis: string }; lines: string[] } | undefined> {

@@ -6,7 +6,7 @@ import { Command, Option } from 'commander';
 import { z } from 'zod';
 import { DisksweepError } from '../../shared/errors.js';
 import { defaultThreadCount } from '../../worker/chunk-pool.js';
-import { redact } from '../../shared/redact.js';
+import { logRedacted as log } from '../../shared/redact.js';
 import { redisOptions, redisSettings, type RedisFlags } from './redis-flags.js';
 
 type WorkFlags = RedisFlags & { concurrency?: string; verbose?: boolean };
@@ -21,7 +21,6 @@ function testWatchdogMs(): number | undefined {
 }
 
 async function workAction(opts: WorkFlags): Promise<number> {
-  const log = (line: string): void => void process.stderr.write(redact(line) + '\n');
   const settings = redisSettings(opts, log);
   if (settings === undefined) throw new DisksweepError('input/invalid-flag', 'work needs --redis URL (or DISKSWEEP_REDIS_URL): the Redis the sweep runs through');
   let threads = defaultThreadCount();

@@ -2,8 +2,8 @@
  * The one redactor: a password must not reach a log line, an error message or the database, whether it came
  * inside a URL or was registered from a password file.
  */
-import { describe, expect, it } from 'vitest';
-import { redact, redactError, registerSecret } from '../../shared/redact.js';
+import { describe, expect, it, vi } from 'vitest';
+import { logRedacted, redact, redactError, registerSecret } from '../../shared/redact.js';
 
 describe('redact', () => {
   it('hides the password of a URL, registered or not, and keeps the user name', () => {
@@ -21,5 +21,15 @@ describe('redact', () => {
     expect(redact('nothing secret here')).toBe('nothing secret here');
     expect(redactError(new Error('WRONGPASS p@ss word'))).toBe('WRONGPASS ***');
     expect(redactError('thrown p@ss')).toBe('thrown ***');
+  });
+
+  it('logs one redacted line to stderr', () => {
+    const write = vi.spyOn(process.stderr, 'write').mockImplementation(() => true);
+    try {
+      logRedacted('redis://u:secret-in-url@h:6379 is away');
+      expect(write.mock.calls).toEqual([['redis://u:***@h:6379 is away\n']]);
+    } finally {
+      write.mockRestore();
+    }
   });
 });
