@@ -216,6 +216,7 @@ export async function createRedisTransport(o: RedisTransportOptions): Promise<Re
         if (others.length < workers.length) lastHeartbeat = Date.now();
         if (!hinted && Date.now() - lastHeartbeat > (o.noWorkerHintS ?? 30) * 1000) {
           hinted = true;
+          clearInterval(hintTimer); // the hint is printed once: no reason to scan for heartbeats any longer
           const otherNote = others.length === 0 ? '' : ` (${others.length} worker${others.length === 1 ? '' : 's'} of another model version ${others.length === 1 ? 'is' : 'are'} running: ${[...new Set(others.map((w) => w.model_version))].join(', ')}; they never take this sweep's chunks)`;
           o.log(`no worker of model version ${o.modelVersion} has been seen for ${o.noWorkerHintS ?? 30} s${otherNote}; start one on any machine that reaches this Redis:\n  ${o.workerCommand}`);
         }
