@@ -5,7 +5,8 @@
  *   by timers around 10^5 tiny calls: the run is repeated with a provider that returns the recorded Σ_a values
  *   in call order (the same trajectory, bit for bit, at no cost), and share = 1 − t_replay / t_real.
  * - refresh accuracy: every checkpoint output of a run with the default refresh tolerance against the same run
- *   re-evaluating every cell at every pass (ion_refresh_tol = 0); the goal is < 1 % (issue 4). Differences are
+ *   re-evaluating every cell at every pass (ion_refresh_tol = 0); the goal is < 1 % (our own accuracy
+ *   target for a cache that skips work: common practice, no source). Differences are
  *   relative to the output itself, except for angular momenta (g cm^2 s^-1), whose scale is at least J_disk of
  *   the checkpoint: the J carried out through R_out = 1000 AU is ~1e-9 of J_disk early on, and its own relative
  *   change says nothing about the model.
