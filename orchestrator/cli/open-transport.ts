@@ -4,7 +4,6 @@
  * the store what is missing, and `--workers N` also starts N worker threads in this process.
  */
 import { hostname } from 'node:os';
-import { DisksweepError } from '../../shared/errors.js';
 import { MODEL_VERSION } from '../../shared/model-version.js';
 import type { QueueWorker } from '../../worker/queue-worker.js';
 import type { SweepStore } from '../store/index.js';
@@ -13,7 +12,7 @@ import { ResultCommitter } from '../sweep/result-committer.js';
 import { createEmbeddedTransport } from '../transport/embedded-transport.js';
 import { logRedacted as log } from '../../shared/redact.js';
 import type { Transport } from '../transport/transport.js';
-import { redisFlagsForCommand, redisSettings, type RedisFlags, type RedisSettings } from './redis-flags.js';
+import { redisFlagsForCommand, redisSettings, testHookInteger, type RedisFlags, type RedisSettings } from './redis-flags.js';
 
 export interface OpenTransportInput {
   /** From `checkRedis`: undefined for the embedded transport. */
@@ -24,15 +23,6 @@ export interface OpenTransportInput {
   readonly workers: number;
   readonly store: SweepStore;
   readonly plan: SweepPlan;
-}
-
-/** A test hook in whole seconds (nothing else sets it): how long `run` waits for a worker before its hint. */
-function testSeconds(name: string): number | undefined {
-  const text = process.env[name];
-  if (text === undefined || text === '') return undefined;
-  const n = Number(text);
-  if (!Number.isInteger(n) || n < 1) throw new DisksweepError('input/invalid-flag', `${name}: expected a whole number of seconds >= 1 (got "${text}")`);
-  return n;
 }
 
 /**
@@ -56,7 +46,7 @@ export async function openTransport(input: OpenTransportInput): Promise<Transpor
   const { target } = settings;
   const transport = await createRedisTransport({
     target, sweepId: input.plan.sweepId, modelVersion: MODEL_VERSION, maxQueued: settings.maxQueued, lockMs: settings.lockMs,
-    stalledMs: settings.stalledMs, log, noWorkerHintS: testSeconds('DISKSWEEP_TEST_NO_WORKER_S'), workerCommand: `disksweep work ${redisFlagsForCommand(settings)}`,
+    stalledMs: settings.stalledMs, log, noWorkerHintS: testHookInteger('DISKSWEEP_TEST_NO_WORKER_S', 1, 'seconds'), workerCommand: `disksweep work ${redisFlagsForCommand(settings)}`,
   });
   const committer = new ResultCommitter(input.plan.source, input.store);
   await transport.drain((outcome) => committer.commit(outcome));

@@ -94,3 +94,15 @@ export function withRedisOptions(command: Command): Command {
   for (const opt of [...redisOptions(), maxQueuedOption()]) command.addOption(opt);
   return command.addHelpText('after', '\nDistributed: with --redis URL (or DISKSWEEP_REDIS_URL) chunks go through Redis to `disksweep work` processes\non any machine; --workers N then also runs N worker threads here.');
 }
+
+/**
+ * A test hook from the environment (nothing else sets these): a whole number of `unit` >= `min`, or undefined
+ * when the variable is unset or empty.
+ */
+export function testHookInteger(name: string, min: number, unit: string): number | undefined {
+  const text = process.env[name];
+  if (text === undefined || text === '') return undefined;
+  const r = z.coerce.number().int().min(min).safeParse(text);
+  if (!r.success) throw new DisksweepError('input/invalid-flag', `${name}: expected a whole number of ${unit} >= ${min} (got "${text}")`);
+  return r.data;
+}

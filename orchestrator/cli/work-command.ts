@@ -7,18 +7,9 @@ import { z } from 'zod';
 import { DisksweepError } from '../../shared/errors.js';
 import { defaultThreadCount } from '../../worker/chunk-pool.js';
 import { logRedacted as log } from '../../shared/redact.js';
-import { redisOptions, redisSettings, type RedisFlags } from './redis-flags.js';
+import { redisOptions, redisSettings, testHookInteger, type RedisFlags } from './redis-flags.js';
 
 type WorkFlags = RedisFlags & { concurrency?: string; verbose?: boolean };
-
-/** DISKSWEEP_TEST_WATCHDOG_MS: the shortest chunk watchdog, for tests of hanging models. */
-function testWatchdogMs(): number | undefined {
-  const text = process.env.DISKSWEEP_TEST_WATCHDOG_MS;
-  if (text === undefined || text === '') return undefined;
-  const r = z.coerce.number().int().min(100).safeParse(text);
-  if (!r.success) throw new DisksweepError('input/invalid-flag', `DISKSWEEP_TEST_WATCHDOG_MS: expected a whole number of ms >= 100 (got "${text}")`);
-  return r.data;
-}
 
 async function workAction(opts: WorkFlags): Promise<number> {
   const settings = redisSettings(opts, log);
@@ -34,7 +25,7 @@ async function workAction(opts: WorkFlags): Promise<number> {
     target: settings.target, threads, lockMs: settings.lockMs, stalledMs: settings.stalledMs, log, verbose: opts.verbose === true,
     // Test hooks (nothing else sets them): pretend to be a worker of another model version; a short watchdog.
     modelVersion: process.env.DISKSWEEP_TEST_MODEL_VERSION || undefined,
-    watchdogMinMs: testWatchdogMs(),
+    watchdogMinMs: testHookInteger('DISKSWEEP_TEST_WATCHDOG_MS', 100, 'ms'), // the shortest chunk watchdog, for tests of hanging models
   });
   await new Promise<void>((resolve) => {
     let signals = 0;
