@@ -13,7 +13,7 @@ import { targetColumnOptions } from '../export/target-column.js';
 import { evaluateTargets, type Evaluation } from '../query/index.js';
 import type { StoreReader, SweepRecord } from '../store/index.js';
 import { EXPORT_FORMATS, type ExportFormat } from '../export/table-writers.js';
-import { pickSweep } from '../store/pick-sweep.js';
+import { latestSweepNote, pickSweep } from '../store/pick-sweep.js';
 import { withReaderAsync } from '../store/read-access.js';
 import { unwritableFile } from './output-file.js';
 import { parseTargetFlags, withTargetOptions, type TargetFlags } from './target-flags.js';
@@ -80,7 +80,8 @@ async function runExport(dbFile: string, flags: ExportFlags): Promise<number> {
   const format = parseFormat(flags.format);
   return withReaderAsync(dbFile, async (reader) => {
     const sweep = pickSweep(reader, flags.sweep, 'latest');
-    if (flags.sweep === undefined && reader.listSweeps().length > 1) process.stderr.write(`${dbFile} holds several sweeps: exporting the latest, ${sweep.name}; choose another with --sweep\n`);
+    const latest = latestSweepNote(reader, flags.sweep, sweep);
+    if (latest !== null) process.stderr.write(`${latest}\n`);
     // A bad --target or --where exits 2 here, before anything is written.
     const targets = parseTargetFlags(flags, false);
     const ev = targets.length === 0 && flags.where === undefined ? null : evaluateTargets(reader, { sweep: sweep.sweepId, targets, where: flags.where });

@@ -19,7 +19,7 @@
 import type Database from 'better-sqlite3';
 import { DisksweepError } from '../../shared/errors.js';
 import type { SqlValue } from '../store/bulk-insert.js';
-import { pickSweep } from '../store/pick-sweep.js';
+import { latestSweepNote, pickSweep } from '../store/pick-sweep.js';
 import { SweepKeys, sweepKeyRange } from '../store/point-keys.js';
 import { ident, tableColumns } from '../store/registry-columns.js';
 import type { StoreReader } from '../store/sweep-store.js';
@@ -176,10 +176,10 @@ function statement(c: Compiled, sweepKey: number, what: SqlFragment, joinPoints:
 
 /** The sweep a request means, its space, its key and the notes about both. */
 function resolve(store: StoreReader, request: Pick<EvaluateRequest, 'sweep' | 'targets'>): { sweep: SweepRecord; space: SweepSpace; sweepKey: number; notes: string[] } {
-  const several = store.listSweeps().length > 1;
   const sweep = pickSweep(store, request.sweep, 'latest');
   const notes: string[] = [];
-  if (several && request.sweep === undefined) notes.push(`${store.file} holds several sweeps: using the latest, ${sweep.name} (${sweep.sweepId.slice(0, 12)}); choose another with --sweep`);
+  const latest = latestSweepNote(store, request.sweep, sweep);
+  if (latest !== null) notes.push(latest);
   const space = sweepSpace(sweep);
   notes.push(...solarSplitNotes(request.targets, space));
   const { sweepKey } = new SweepKeys(store.connection).require(sweep.sweepId);

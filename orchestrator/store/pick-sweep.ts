@@ -21,3 +21,12 @@ export function pickSweep(store: StoreReader, selector: string | undefined, when
   if (matches.length === 0) throw new DisksweepError('input/invalid-flag', `--sweep ${selector}: no such sweep in ${store.file}`, { details: list });
   throw new DisksweepError('input/invalid-flag', `${store.file} holds ${matches.length} sweeps${selector === undefined ? '' : ` matching "${selector}"`}: choose one with --sweep`, { details: list });
 }
+
+/**
+ * The note a reader prints when `pickSweep(..., 'latest')` chose for the user among several sweeps (null when the
+ * user named one or there was only one): one wording for every read-only command.
+ */
+export function latestSweepNote(store: StoreReader, selector: string | undefined, chosen: SweepRecord): string | null {
+  if (selector !== undefined || store.listSweeps().length < 2) return null;
+  return `${store.file} holds several sweeps: using the latest, ${chosen.name} (${chosen.sweepId.slice(0, 12)}); choose another with --sweep`;
+}
