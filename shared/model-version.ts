@@ -2,4 +2,4 @@
  * Version of the physics: part of every point id, so results of different physics never mix. Bump it with
  * any change that alters a model's outputs.
  */
-export const MODEL_VERSION = '0.6.0';
+export const MODEL_VERSION = '0.7.0';

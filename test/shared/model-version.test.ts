@@ -17,7 +17,7 @@ import { MODEL_VERSION } from '../../shared/model-version.js';
 import { runModel } from '../../worker/model.js';
 
 const PINNED = {
-  version: '0.6.0',
+  version: '0.7.0',
   tables: '7ad84c0dacfa3a96d5c3894e616c2c2fdf03846a759577b5d8d7a288897d600f',
   disk_model: 'e695d43864ad6ea6be8dae7a358c19e7d94470dbdf451e2ede7589d1643a76a1',
 };

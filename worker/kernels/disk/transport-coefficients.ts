@@ -1,8 +1,12 @@
 /**
  * ν(R) for the next step from the current Σ: layered α (active-layer.ts), gravitational-instability α
- * (gravitational-instability.ts) and the midplane temperature (thermal-structure.ts), iterated together
- * because α_GI depends on c_s(T) and T_visc on α. The fixed point is a contraction (T ∝ α^{1/3}, α_GI ∝ 1/T,
- * so errors shrink by ~1/3 per pass); a few passes from last step's T reach 1e-10.
+ * (gravitational-instability.ts) and the midplane temperature (thermal-structure.ts), solved together
+ * because α_GI depends on c_s(T) and T_visc on α. The temperature is the fixed point T = T_eq(α(T)); T_eq does
+ * not increase with T (α_GI falls as c_s rises), so the fixed point is unique. Plain iteration contracts by
+ * ~1/3 per pass where GI is off or strong (T ∝ α^{1/3}), but near marginal stability (Q just below q_crit,
+ * α_GI ≪ its normalisation) |dT_eq/dT| passes 1 and it falls into a period-2 cycle between a hot and a cool
+ * temperature: ν then depended on the pass count and on last step's T, jumping ~10-fold for a 1 % change of
+ * Σ, and the integrator crawled. The solve (numerics/root-finding.ts) brackets and uses Brent's method there.
  */
 import { SIGMA_SB_CGS } from '../../../shared/constants.js';
 import type { ActiveColumn, ActiveLayerInput } from './active-layer.js';
@@ -15,6 +19,7 @@ import {
 } from './gravitational-instability.js';
 import type { DiskGrid } from './grid.js';
 import type { Opacity } from './opacity.js';
+import { nonIncreasingFixedPoint } from '../numerics/root-finding.js';
 import { coolingRateCoefficient, relaxTemperature } from './thermal-inertia.js';
 import { SOUND_SPEED2_PER_K, solveMidplaneTemperature, viscousHeatingCoefficient } from './thermal-structure.js';
 
@@ -52,33 +57,50 @@ export interface TransportSummary {
 }
 
 /**
- * Cap on the fixed-point passes (numerical choice, no source): errors shrink ~3x per pass (see above), so 12
- * passes gain ~6 digits from a cold start.
+ * Cap on the evaluations of T_eq per temperature solve (numerical choice, no source): plain passes gain ~6 digits
+ * in 12 from a cold start where they contract, and Brent's method takes over where they do not.
  */
-const MAX_PASSES = 12;
+const MAX_EVALUATIONS = 40;
+/** Relative tolerance of the midplane temperature. */
+const TEMPERATURE_TOL = 1e-10;
 
 type Mutable<T> = { -readonly [K in keyof T]: T[K] };
 const SQRT_2PI = Math.sqrt(2 * Math.PI);
 
 /**
- * Equilibrium midplane temperature of a cell with dead-zone transport only: α_dead plus α_GI, iterated to its
- * own fixed point from `t` (GI heating can trigger the MRI; the MRI's own heating cannot, and the result depends
- * on Σ, not on whether the cell is active now). The MRI heating of the ionized surface layers is left out: it is
- * released near the surface, where it escapes.
+ * What one trial temperature of a cell gives: the α and κ there, and the temperature that heating balances.
+ * One instance per coefficient pass is filled with the cell's data, so the solve allocates nothing per cell.
  */
-function deadColumnTemperature(physics: TransportPhysics, s: number, om: number, t0: number, i: number): number {
-  const { alphaDead, opacity, gi, baseTemperature4 } = physics;
-  let t = t0;
-  for (let pass = 0; pass < MAX_PASSES; pass++) {
+interface HeatingTrial {
+  s: number;
+  om: number;
+  i: number;
+  /** α of the layered rule (GI is added per trial). */
+  alphaLayer: number;
+  /** Start-of-step temperature for thermal inertia; NaN for the equilibrium. */
+  tOld: number;
+  alpha: number;
+  kappa: number;
+}
+
+function heatingBalance(physics: TransportPhysics, inertiaDt: number, trial: HeatingTrial): (t: number) => number {
+  const { opacity, gi, baseTemperature4 } = physics;
+  return (t) => {
     const cs = Math.sqrt(SOUND_SPEED2_PER_K * t);
-    const alpha = gi === null ? alphaDead : alphaDead + alphaGravitationalInstability(cs, om, s, gi.qCrit, gi.alphaMax);
-    const kappa = opacity.isConstant ? opacity.kappa(0, t) : opacity.kappa((s * om) / (SQRT_2PI * cs), t);
-    const tNew = solveMidplaneTemperature(viscousHeatingCoefficient(kappa, s, alpha, om), baseTemperature4[i]);
-    const converged = Math.abs(tNew - t) <= 1e-10 * tNew;
-    t = tNew;
-    if (converged || (gi === null && opacity.isConstant)) break;
-  }
-  return t;
+    const { s, om, i } = trial;
+    trial.alpha = gi === null ? trial.alphaLayer : trial.alphaLayer + alphaGravitationalInstability(cs, om, s, gi.qCrit, gi.alphaMax);
+    trial.kappa = opacity.isConstant ? opacity.kappa(0, t) : opacity.kappa((s * om) / (SQRT_2PI * cs), t);
+    const a = viscousHeatingCoefficient(trial.kappa, s, trial.alpha, om);
+    const tEq = solveMidplaneTemperature(a, baseTemperature4[i]);
+    return Number.isNaN(trial.tOld) ? tEq : relaxTemperature(a, baseTemperature4[i], trial.tOld, coolingRateCoefficient(trial.kappa, s) * inertiaDt, tEq);
+  };
+}
+
+/** The cell's temperature from `t`, with `trial` filled in at it (α, κ). */
+function solveCellTemperature(physics: TransportPhysics, balance: (t: number) => number, t: number): number {
+  // Without GI and with a constant κ, T_eq does not depend on T: one evaluation is the answer.
+  if (physics.gi === null && physics.opacity.isConstant) return balance(t);
+  return nonIncreasingFixedPoint(balance, t, TEMPERATURE_TOL, MAX_EVALUATIONS);
 }
 
 export function computeTransportCoefficients(
@@ -95,13 +117,15 @@ export function computeTransportCoefficients(
    */
   dt = Infinity,
 ): TransportSummary {
-  const { alphaActive, alphaDead, activeColumn, opacity, gi, baseTemperature4 } = physics;
+  const { alphaActive, alphaDead, activeColumn, baseTemperature4 } = physics;
   const inertia = physics.thermalInertia === true && dt < Infinity;
   const quiescentFrom = activeColumn.quiescentFrom;
-  // One input record for every cell (no allocation per cell and pass).
+  // One input record and one trial record for every cell (no allocation per cell and pass).
   const cell: Mutable<ActiveLayerInput> = {
     sigma: 0, temperature: 0, radius: 0, omega: 0, time, index: 0, quiescentTemperature: 0, derivativeProbe: fields.derivativeProbe === true,
   };
+  const trial: HeatingTrial = { s: 0, om: 0, i: 0, alphaLayer: 0, tOld: NaN, alpha: 0, kappa: 0 };
+  const balance = heatingBalance(physics, dt, trial);
   const { nu, temperature, sigmaActive: sigmaActiveOut } = fields;
   let qMin = Infinity;
   let fragmenting = false;
@@ -109,31 +133,33 @@ export function computeTransportCoefficients(
     const s = sigma[i];
     const om = omega[i];
     const tOld = temperature[i];
-    let t = tOld > 0 ? tOld : Math.sqrt(Math.sqrt(baseTemperature4[i]));
+    const tStart = tOld > 0 ? tOld : Math.sqrt(Math.sqrt(baseTemperature4[i]));
+    trial.s = s;
+    trial.om = om;
+    trial.i = i;
     cell.sigma = s;
-    cell.temperature = t;
+    cell.temperature = tStart;
     cell.radius = grid.centers[i];
     cell.omega = om;
     cell.index = i;
-    // The quiescent column is no hotter than the midplane (less α, less heat): below the provider's threshold
-    // the midplane temperature stands in for it and the switch stays off all the same.
-    cell.quiescentTemperature = quiescentFrom !== undefined && t >= quiescentFrom ? deadColumnTemperature(physics, s, om, t, i) : t;
+    // The quiescent column (α_dead plus GI, in equilibrium) is no hotter than the midplane (less α, less heat):
+    // below the provider's threshold the midplane temperature stands in for it and the switch stays off all
+    // the same. The MRI heating of ionized surface layers is left out of it: released near the surface, it
+    // escapes. GI heating can trigger the MRI; the MRI's own heating cannot, so the result depends on Σ, not on
+    // whether the cell is active now.
+    if (quiescentFrom !== undefined && tStart >= quiescentFrom) {
+      trial.alphaLayer = alphaDead;
+      trial.tOld = NaN;
+      cell.quiescentTemperature = solveCellTemperature(physics, balance, tStart);
+    } else {
+      cell.quiescentTemperature = tStart;
+    }
     const sigmaActive = Math.min(activeColumn(cell), s);
     if (sigmaActiveOut !== undefined) sigmaActiveOut[i] = sigmaActive;
-    const alphaLayer = layeredAlpha(s, sigmaActive, alphaActive, alphaDead);
-    let alpha = alphaLayer;
-    let kappa = 0;
-    for (let pass = 0; pass < MAX_PASSES; pass++) {
-      const cs = Math.sqrt(SOUND_SPEED2_PER_K * t);
-      alpha = gi === null ? alphaLayer : alphaLayer + alphaGravitationalInstability(cs, om, s, gi.qCrit, gi.alphaMax);
-      kappa = opacity.isConstant ? opacity.kappa(0, t) : opacity.kappa((s * om) / (SQRT_2PI * cs), t);
-      const a = viscousHeatingCoefficient(kappa, s, alpha, om);
-      const tEq = solveMidplaneTemperature(a, baseTemperature4[i]);
-      const tNew = inertia ? relaxTemperature(a, baseTemperature4[i], tOld, coolingRateCoefficient(kappa, s) * dt, tEq) : tEq;
-      const converged = Math.abs(tNew - t) <= 1e-10 * tNew;
-      t = tNew;
-      if (converged || (gi === null && opacity.isConstant)) break;
-    }
+    trial.alphaLayer = layeredAlpha(s, sigmaActive, alphaActive, alphaDead);
+    trial.tOld = inertia ? tOld : NaN;
+    const t = solveCellTemperature(physics, balance, tStart);
+    const { alpha, kappa } = trial;
     temperature[i] = t;
     const cs2 = SOUND_SPEED2_PER_K * t;
     nu[i] = (alpha * cs2) / om;

@@ -17,7 +17,7 @@ import { electronFraction, thermalIons, type Chemistry, type ThermalIons } from 
 import { fuvElectronFraction } from './fuv-layer.js';
 import { h2NumberDensity, hydrogenColumn } from './gas-composition.js';
 import { activityNumber, ohmicDiffusivity, type ActivityCriterion } from './ohmic-activity.js';
-import { brentRoot } from './root-finding.js';
+import { brentRoot } from '../numerics/root-finding.js';
 import type { SahaElement } from './saha.js';
 import { columnSampling, faceColumnSamples, midplaneDensity, reducedHeight, sampleColumn, scaleHeight } from './vertical-structure.js';
 import { xrayRate, xrayScale, type PreparedXrayFit } from './xray-rate.js';

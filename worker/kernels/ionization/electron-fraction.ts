@@ -11,7 +11,7 @@
  * ionization. Grain-free chemistry throughout: dust would lower x_e (validity limit; see README).
  */
 import { CHARGE_TRANSFER_CM3_S, dissociativeRecombination, metalElectronFraction, molecularElectronFraction, radiativeRecombination } from './recombination.js';
-import { brentRoot } from './root-finding.js';
+import { brentRoot } from '../numerics/root-finding.js';
 import { sahaFactor, type SahaElement } from './saha.js';
 
 export type Chemistry = { readonly kind: 'molecular' } | { readonly kind: 'metals'; readonly xMetal: number };

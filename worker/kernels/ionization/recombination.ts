@@ -12,7 +12,7 @@
  * Scheme (b) is solved for the metal-ion fraction y = n_M⁺/n (see `metalElectronFraction`); at x_M = 0 the
  * bracket is the single point y = 0 and x is (a) to round-off.
  */
-import { brentRoot } from './root-finding.js';
+import { brentRoot } from '../numerics/root-finding.js';
 
 /** Dissociative recombination of molecular ions, cm³ s^-1, T in K (issue-given; Oppenheimer & Dalgarno 1974). */
 export function dissociativeRecombination(temperature: number): number {

@@ -72,3 +72,29 @@ export function brentRoot(f: (x: number) => number, a: number, b: number, fa: nu
   }
   return { x: b, evaluations };
 }
+
+/**
+ * Solution of t = g(t) for a g that does not increase with t (so t − g(t) increases and the root is unique),
+ * from a first guess t0 > 0, to a relative tolerance. Plain iteration t ← g(t) is kept while it contracts (the
+ * usual case, and the cheapest); where |g′| nears or passes 1 it oscillates about the root, possibly forever
+ * (a period-2 cycle), so it hands over to Brent's method on the bracket every step gives for free: for a
+ * non-increasing g the root lies between t and g(t). Returns g at the last point evaluated, which is within
+ * the tolerance of that point, so side effects of g (what it computed on the way) belong to the answer.
+ */
+export function nonIncreasingFixedPoint(g: (t: number) => number, t0: number, relTol: number, maxEvaluations: number): number {
+  let t = t0;
+  let gt = g(t);
+  for (let evaluation = 1; evaluation < maxEvaluations; evaluation++) {
+    if (Math.abs(gt - t) <= relTol * Math.abs(gt)) break;
+    const ggt = g(gt);
+    // Contraction by less than half: bracket instead. F(x) = x − g(x) changes sign between t and g(t).
+    const fLow = t - gt;
+    const fHigh = gt - ggt;
+    if (Math.abs(fHigh) > 0.5 * Math.abs(fLow) && fHigh !== 0 && (fLow > 0) !== (fHigh > 0)) {
+      return g(brentRoot((x) => x - g(x), t, gt, fLow, fHigh, 0.25 * relTol * Math.min(t, gt)).x);
+    }
+    t = gt;
+    gt = ggt;
+  }
+  return gt;
+}
