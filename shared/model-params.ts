@@ -208,7 +208,7 @@ export const PARAMS = {
     choices: ['quiescent', 'midplane'],
     default: 'quiescent',
     description:
-      'active_layer=ionization: the temperature the ionization kernel and the thermal switch see. "quiescent" = ' +
+      'active_layer=ionization: the temperature the thermal switch (or the Saha alkali ions) sees. "quiescent" = ' +
       'the midplane temperature the column would have with alpha_dead (plus GI) transport: a column cannot keep ' +
       'itself active by its own MRI heating, so the inner dead-zone edge is a steady front (no thermal-viscous ' +
       'cycles, fast); "midplane" = the actual midplane temperature: self-sustained activity and its cycles, followed ' +

@@ -19,7 +19,7 @@ import { runModel } from '../../worker/model.js';
 const PINNED = {
   version: '0.7.0',
   tables: '7ad84c0dacfa3a96d5c3894e616c2c2fdf03846a759577b5d8d7a288897d600f',
-  disk_model: 'e695d43864ad6ea6be8dae7a358c19e7d94470dbdf451e2ede7589d1643a76a1',
+  disk_model: '77b6f89678f8034f1bfaad2064b7e76ec01082d7f120094f24b0d4422f5be93d',
 };
 
 function fingerprints(): typeof PINNED {

@@ -50,6 +50,11 @@ export interface ColumnState {
   readonly sigma: number;
   /** Temperature (vertically isothermal), K. */
   readonly temperature: number;
+  /**
+   * Temperature the alkali metals of the Saha branch see, K (default: `temperature`); the disk model passes the
+   * quiescent temperature here (ionization-active-layer.ts).
+   */
+  readonly thermalIonizationTemperature?: number;
   /** Radius, cm. */
   readonly radius: number;
   /** Keplerian angular frequency, s^-1. */
@@ -76,7 +81,7 @@ export function prepareColumn(state: ColumnState, sources: IonizationSources, ph
     state, sources, physics, soundSpeed2, scaleHeight: h,
     rho0: midplaneDensity(state.sigma, h),
     xrayScale: sources.lxErgS > 0 ? xrayScale(sources.lxErgS, state.radius) : 0,
-    thermal: physics.alkalis === null ? null : thermalIons(physics.alkalis, state.temperature),
+    thermal: physics.alkalis === null ? null : thermalIons(physics.alkalis, state.thermalIonizationTemperature ?? state.temperature),
     lnThreshold: Math.log(physics.criterion.threshold),
   };
 }

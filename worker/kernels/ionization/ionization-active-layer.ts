@@ -11,7 +11,8 @@
  *   extra input) or the radionuclide rate changed by more than it since the last such global refresh. L_X is a
  *   constant of the run. Between refreshes a cell keeps its Σ_a,ion in g cm^-2 (a layer's depth is set by
  *   the penetration of the rays, not by the total column), or "all of it" if it was fully active.
- * Which temperature: with `activityTemperature = 'quiescent'` (the default) the kernel and the thermal switch see
+ * Which temperature: with `activityTemperature = 'quiescent'` (the default) the thermal sources of activity — the
+ * threshold switch, or the alkali ions of the Saha branch — see
  * the temperature the column would have with dead-zone transport only (α_dead plus gravitational instability;
  * transport-coefficients.ts), not the midplane temperature the column's own MRI heating raises. Why: with the
  * midplane temperature, a column between the two ends of the thermal S-curve is bistable — dead and cool, or
@@ -58,9 +59,9 @@ export interface IonizationLayerOptions {
   /** Relative change of Σ, T, M_* or ζ_R that triggers a re-evaluation; 0 = whenever anything changed. */
   readonly refreshTolerance: number;
   /**
-   * Which temperature the thermal switch sees: 'quiescent' = the dead column's
-   * (`ActiveLayerInput.quiescentTemperature`), 'midplane' = the midplane temperature itself. The kernel always
-   * sees the midplane temperature.
+   * Which temperature the thermal switch and the Saha ions of the kernel see: 'quiescent' = the dead column's
+   * (`ActiveLayerInput.quiescentTemperature`), 'midplane' = the midplane temperature itself. Recombination and
+   * η always see the midplane temperature (they follow it as √T, too weakly to make a column bistable).
    */
   readonly activityTemperature: 'quiescent' | 'midplane';
 }
@@ -75,12 +76,16 @@ export interface IonizationLayerStats {
 
 export type IonizationActiveColumn = ActiveColumn & { readonly stats: IonizationLayerStats };
 
+/** See `quiescentFrom` below. */
+const SAHA_QUIESCENT_FROM_K = 800;
+
 const changed = (now: number, then: number, tol: number): boolean => !(Math.abs(now - then) <= tol * Math.abs(then));
 
 export function createIonizationActiveColumn(o: IonizationLayerOptions): IonizationActiveColumn {
   const n = o.nCells;
   const lastSigma = new Float64Array(n);
   const lastTemperature = new Float64Array(n);
+  const lastSwitchTemperature = new Float64Array(n);
   const lastGeneration = new Int32Array(n);
   const ionActive = new Float64Array(n);
   const wasFull = new Uint8Array(n);
@@ -102,8 +107,8 @@ export function createIonizationActiveColumn(o: IonizationLayerOptions): Ionizat
   };
 
   const column = (cell: ActiveLayerInput): number => {
-    const { sigma, temperature, radius, omega, time, index } = cell;
-    const switchTemperature = quiescent ? (cell.quiescentTemperature ?? temperature) : temperature;
+    const { sigma, radius, omega, time, index } = cell;
+    const switchTemperature = quiescent ? (cell.quiescentTemperature ?? cell.temperature) : cell.temperature;
     stats.calls++;
     const gm = omega * omega * radius * radius * radius;
     const zetaRadio = radionuclideRate(rn.zetaAl26, rn.zetaK40, rn.meanLife, time);
@@ -119,13 +124,20 @@ export function createIonizationActiveColumn(o: IonizationLayerOptions): Ionizat
     const w = o.thermal.kind === 'threshold' ? thermalWeight(switchTemperature, o.thermal.tMri, o.thermal.halfWidth) : 0;
     if (w >= 1) return sigma;
     let ion: number;
+    // Where alkali ions can matter, Σ_a follows T steeply (x_e ∝ exp(−χ/2kT): ~25 % per 1 % of T at 1000 K), so
+    // no cached value stands in, not even in the derivative probe: the flux linearisation must see dΣ_a/dΣ.
+    const steep = o.physics.alkalis !== null && switchTemperature >= SAHA_QUIESCENT_FROM_K;
     if (
+      !steep &&
       lastGeneration[index] === generation &&
-      (cell.derivativeProbe === true || (!changed(sigma, lastSigma[index], tol) && !changed(temperature, lastTemperature[index], tol)))
+      (cell.derivativeProbe === true || (!changed(sigma, lastSigma[index], tol) &&
+        !changed(cell.temperature, lastTemperature[index], tol) &&
+        !changed(switchTemperature, lastSwitchTemperature[index], tol)))
     ) {
       ion = wasFull[index] === 1 ? sigma : Math.min(ionActive[index], sigma);
     } else {
-      const ctx = prepareColumn({ sigma, temperature, radius, omega }, { ...o.sources, zetaRadio: refZetaRadio }, o.physics);
+      const state = { sigma, temperature: cell.temperature, thermalIonizationTemperature: switchTemperature, radius, omega };
+      const ctx = prepareColumn(state, { ...o.sources, zetaRadio: refZetaRadio }, o.physics);
       // The cell's last boundary, if it had one, brackets the new one in two evaluations most of the time.
       const hint = lastGeneration[index] > 0 && wasFull[index] === 0 && ionActive[index] > 0 ? 0.5 * ionActive[index] : NaN;
       const r = solveActiveColumn(ctx, o.nz, scratch, hint);
@@ -133,14 +145,25 @@ export function createIonizationActiveColumn(o: IonizationLayerOptions): Ionizat
       stats.evaluations += r.evaluations;
       lastGeneration[index] = generation;
       lastSigma[index] = sigma;
-      lastTemperature[index] = temperature;
+      lastTemperature[index] = cell.temperature;
+      lastSwitchTemperature[index] = switchTemperature;
       ionActive[index] = r.sigmaActive;
       wasFull[index] = r.midplaneDead ? 0 : 1;
       ion = r.sigmaActive;
     }
     return blendThermal(sigma, ion, w);
   };
-  const quiescentFrom = quiescent && o.thermal.kind === 'threshold' ? o.thermal.tMri - o.thermal.halfWidth : undefined;
+  // Below these midplane temperatures the quiescent one would change nothing that matters, so the midplane
+  // temperature stands in for it (and saves a second temperature solve per cell): under the thermal switch
+  // nothing switches, and alkali metals in Saha equilibrium give x_e < 1e-14 at 800 K and n ~ 1e14 cm⁻³
+  // (saha.ts), three orders below the ~1e-11 an active midplane needs at 1 AU with Re_crit ~ 100.
+  const quiescentFrom = !quiescent
+    ? undefined
+    : o.thermal.kind === 'threshold'
+      ? o.thermal.tMri - o.thermal.halfWidth
+      : o.physics.alkalis !== null
+        ? SAHA_QUIESCENT_FROM_K
+        : undefined;
   return Object.assign(column, { reset, stats, quiescentFrom });
 }
 

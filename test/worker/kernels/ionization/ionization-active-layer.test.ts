@@ -146,6 +146,29 @@ describe('which temperature the thermal switch sees (activity_temperature)', () 
     expect(mid(hot(800))).toBe(1000); // the midplane switch ignores it
   });
 
+  it('Saha branch, quiescent: the alkali ions see the dead column\'s temperature, recombination and η the midplane one', () => {
+    const o = ionOptions({ thermal_ionization: 'saha', ion_refresh_tol: 0 });
+    const p = createIonizationActiveColumn(o);
+    expect(p.quiescentFrom).toBe(800);
+    const zeta = { ...o.sources, zetaRadio: 7.6e-19 + 1.1e-22 };
+    const c = cell(0.3, 1000, 1400);
+    const kernel = (saha: number) => solveActiveColumn(prepareColumn({ ...c, thermalIonizationTemperature: saha }, zeta, o.physics), o.nz).sigmaActive;
+    // The choice matters at these temperatures (else the checks below could not fail).
+    expect(kernel(900)).toBeLessThan(kernel(1400));
+    expect(p({ ...c, quiescentTemperature: 900 })).toBe(kernel(900));
+    expect(p({ ...c, quiescentTemperature: 1400, index: 1 })).toBe(kernel(1400));
+  });
+
+  it('Saha branch: where alkali ions can matter, even a derivative probe re-runs the kernel (Σ_a follows T steeply)', () => {
+    const p = createIonizationActiveColumn(ionOptions({ thermal_ionization: 'saha' }));
+    p({ ...cell(0.3, 1000, 1400), quiescentTemperature: 1000 });
+    p({ ...cell(0.3, 1000 * (1 + 1e-4), 1400), quiescentTemperature: 1000, derivativeProbe: true });
+    expect(p.stats.refreshes).toBe(2);
+    p({ ...cell(1, 1700, 280, 1), quiescentTemperature: 280 });
+    p({ ...cell(1, 1700 * (1 + 1e-4), 280, 1), quiescentTemperature: 280, derivativeProbe: true });
+    expect(p.stats.refreshes).toBe(3); // a cool cell's probe answers from the cache
+  });
+
   it('a column heated into activity by its own MRI is bistable with the midplane switch, single-valued with the quiescent one', () => {
     // 0.3 AU, Σ = 1000 g cm^-2, κ = 1: alpha_active heating alone gives ~1500 K, alpha_dead heating ~320 K.
     const grid = makeLogGrid(0.299 * AU_CGS, 0.301 * AU_CGS, 2);
