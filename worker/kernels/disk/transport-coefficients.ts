@@ -79,17 +79,24 @@ interface HeatingTrial {
   alphaLayer: number;
   /** Start-of-step temperature for thermal inertia; NaN for the equilibrium. */
   tOld: number;
+  /** α_GI at the trial temperature (0 without GI). */
+  alphaGi: number;
   alpha: number;
   kappa: number;
+}
+
+/** α_GI of the cell in `trial` at temperature t. */
+function alphaGiAt(gi: TransportPhysics['gi'], trial: HeatingTrial, t: number): number {
+  return gi === null ? 0 : alphaGravitationalInstability(Math.sqrt(SOUND_SPEED2_PER_K * t), trial.om, trial.s, gi.qCrit, gi.alphaMax);
 }
 
 function heatingBalance(physics: TransportPhysics, inertiaDt: number, trial: HeatingTrial): (t: number) => number {
   const { opacity, gi, baseTemperature4 } = physics;
   return (t) => {
-    const cs = Math.sqrt(SOUND_SPEED2_PER_K * t);
     const { s, om, i } = trial;
-    trial.alpha = gi === null ? trial.alphaLayer : trial.alphaLayer + alphaGravitationalInstability(cs, om, s, gi.qCrit, gi.alphaMax);
-    trial.kappa = opacity.isConstant ? opacity.kappa(0, t) : opacity.kappa((s * om) / (SQRT_2PI * cs), t);
+    trial.alphaGi = alphaGiAt(gi, trial, t);
+    trial.alpha = gi === null ? trial.alphaLayer : trial.alphaLayer + trial.alphaGi;
+    trial.kappa = opacity.isConstant ? opacity.kappa(0, t) : opacity.kappa((s * om) / (SQRT_2PI * Math.sqrt(SOUND_SPEED2_PER_K * t)), t);
     const a = viscousHeatingCoefficient(trial.kappa, s, trial.alpha, om);
     const tEq = solveMidplaneTemperature(a, baseTemperature4[i]);
     return Number.isNaN(trial.tOld) ? tEq : relaxTemperature(a, baseTemperature4[i], trial.tOld, coolingRateCoefficient(trial.kappa, s) * inertiaDt, tEq);
@@ -97,10 +104,13 @@ function heatingBalance(physics: TransportPhysics, inertiaDt: number, trial: Hea
 }
 
 /** The cell's temperature from `t`, with `trial` filled in at it (α, κ). */
-function solveCellTemperature(physics: TransportPhysics, balance: (t: number) => number, t: number): number {
-  // Without GI and with a constant κ, T_eq does not depend on T: one evaluation is the answer.
-  if (physics.gi === null && physics.opacity.isConstant) return balance(t);
-  return nonIncreasingFixedPoint(balance, t, TEMPERATURE_TOL, MAX_EVALUATIONS);
+function solveCellTemperature(physics: TransportPhysics, balance: (t: number) => number, trial: HeatingTrial, t: number): number {
+  const first = balance(t);
+  // The balance depends on T only through α_GI and κ. With κ constant and α_GI = 0 both at t and at T' = T_eq(t)
+  // (Q ≥ Q_crit at both; always so without GI), the balance at T' uses the same α and κ as at t and returns T'
+  // again, bit for bit: T' is the fixed point, and the second evaluation the iteration would spend is skipped.
+  if (physics.opacity.isConstant && trial.alphaGi === 0 && alphaGiAt(physics.gi, trial, first) === 0) return first;
+  return nonIncreasingFixedPoint(balance, t, TEMPERATURE_TOL, MAX_EVALUATIONS, first);
 }
 
 export function computeTransportCoefficients(
@@ -124,7 +134,7 @@ export function computeTransportCoefficients(
   const cell: Mutable<ActiveLayerInput> = {
     sigma: 0, temperature: 0, radius: 0, omega: 0, time, index: 0, quiescentTemperature: 0, derivativeProbe: fields.derivativeProbe === true,
   };
-  const trial: HeatingTrial = { s: 0, om: 0, i: 0, alphaLayer: 0, tOld: NaN, alpha: 0, kappa: 0 };
+  const trial: HeatingTrial = { s: 0, om: 0, i: 0, alphaLayer: 0, tOld: NaN, alphaGi: 0, alpha: 0, kappa: 0 };
   const balance = heatingBalance(physics, dt, trial);
   const { nu, temperature, sigmaActive: sigmaActiveOut } = fields;
   let qMin = Infinity;
@@ -150,7 +160,7 @@ export function computeTransportCoefficients(
     if (quiescentFrom !== undefined && tStart >= quiescentFrom) {
       trial.alphaLayer = alphaDead;
       trial.tOld = NaN;
-      cell.quiescentTemperature = solveCellTemperature(physics, balance, tStart);
+      cell.quiescentTemperature = solveCellTemperature(physics, balance, trial, tStart);
     } else {
       cell.quiescentTemperature = tStart;
     }
@@ -158,7 +168,7 @@ export function computeTransportCoefficients(
     if (sigmaActiveOut !== undefined) sigmaActiveOut[i] = sigmaActive;
     trial.alphaLayer = layeredAlpha(s, sigmaActive, alphaActive, alphaDead);
     trial.tOld = inertia ? tOld : NaN;
-    const t = solveCellTemperature(physics, balance, tStart);
+    const t = solveCellTemperature(physics, balance, trial, tStart);
     const { alpha, kappa } = trial;
     temperature[i] = t;
     const cs2 = SOUND_SPEED2_PER_K * t;

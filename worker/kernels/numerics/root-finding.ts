@@ -80,10 +80,17 @@ export function brentRoot(f: (x: number) => number, a: number, b: number, fa: nu
  * (a period-2 cycle), so it hands over to Brent's method on the bracket every step gives for free: for a
  * non-increasing g the root lies between t and g(t). Returns g at the last point evaluated, which is within
  * the tolerance of that point, so side effects of g (what it computed on the way) belong to the answer.
+ * `gt0`, when given, is g(t0) already evaluated by the caller (the last evaluation of g before the call).
  */
-export function nonIncreasingFixedPoint(g: (t: number) => number, t0: number, relTol: number, maxEvaluations: number): number {
+export function nonIncreasingFixedPoint(
+  g: (t: number) => number,
+  t0: number,
+  relTol: number,
+  maxEvaluations: number,
+  gt0?: number,
+): number {
   let t = t0;
-  let gt = g(t);
+  let gt = gt0 ?? g(t);
   for (let evaluation = 1; evaluation < maxEvaluations; evaluation++) {
     if (Math.abs(gt - t) <= relTol * Math.abs(gt)) break;
     const ggt = g(gt);

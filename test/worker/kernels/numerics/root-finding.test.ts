@@ -36,6 +36,15 @@ describe('fixed point of a non-increasing map', () => {
     expect(nonIncreasingFixedPoint(() => (n++, 7), 100, 1e-12, 60)).toBe(7);
     expect(n).toBe(2);
   });
+
+  it('a caller that already evaluated g(t0) passes it and the solver does not evaluate g there again', () => {
+    const calls: number[] = [];
+    const g = (t: number): number => (calls.push(t), 10 - 0.5 * t);
+    // g(t) = a − b t: fixed point a / (1 + b) (algebra).
+    const root = nonIncreasingFixedPoint(g, 1, 1e-12, 60, g(1));
+    expect(Math.abs(root - 10 / 1.5) / (10 / 1.5)).toBeLessThan(1e-10);
+    expect(calls.filter((t) => t === 1)).toHaveLength(1);
+  });
 });
 
 describe('midplane temperature under gravitational instability near marginal stability', () => {
@@ -73,6 +82,20 @@ describe('midplane temperature under gravitational instability near marginal sta
     for (const tStart of [300, 1200, 5000]) {
       const { t } = coefficientsAt(cycling, tStart);
       expect(Math.abs(balance(cycling)(t) - t) / t).toBeLessThan(1e-9);
+    }
+  });
+
+  it('where Q ≥ q_crit at the answer, the pass returns T_eq of α without GI exactly, from cold or hot starts', () => {
+    // Σ = 10³ g cm⁻² at 1.9 AU: T ≈ 212 K and Q ≈ 22 (c_s Ω / (π G Σ), Toomre 1964), far above q_crit = 2.
+    const sigma = 1e3;
+    const expected = solveMidplaneTemperature(viscousHeatingCoefficient(1, sigma, 1e-4, omega), base4);
+    expect(alphaGravitationalInstability(Math.sqrt(SOUND_SPEED2_PER_K * expected), omega, sigma, 2, 0.1)).toBe(0);
+    // 1 K: so cold that α_GI > 0 at the first guess, and the iteration has to leave it.
+    expect(alphaGravitationalInstability(Math.sqrt(SOUND_SPEED2_PER_K * 1), omega, sigma, 2, 0.1)).toBeGreaterThan(0);
+    for (const tStart of [1, 150, expected, 5000]) {
+      const { t, nu } = coefficientsAt(sigma, tStart);
+      expect(t).toBe(expected);
+      expect(nu).toBe((1e-4 * (SOUND_SPEED2_PER_K * expected)) / omega);
     }
   });
 
