@@ -96,6 +96,11 @@ export function createIonizationActiveColumn(o: IonizationLayerOptions): Ionizat
   let generation = 0;
   let refGm = NaN;
   let refZetaRadio = NaN;
+  // The sources at the last global refresh (ζ_R as of then), built once per refresh rather than once per kernel run.
+  let sources: IonizationSources = { ...o.sources, zetaRadio: NaN };
+  // ζ_R at the time of the last call: a coefficient pass asks for every cell at one time.
+  let rateTime = NaN;
+  let rateNow = NaN;
   const quiescent = o.activityTemperature === 'quiescent';
 
   const reset = (): void => {
@@ -103,6 +108,7 @@ export function createIonizationActiveColumn(o: IonizationLayerOptions): Ionizat
     generation = 0;
     refGm = NaN;
     refZetaRadio = NaN;
+    rateTime = NaN;
     stats.calls = stats.refreshes = stats.evaluations = stats.globalRefreshes = 0;
   };
 
@@ -111,12 +117,17 @@ export function createIonizationActiveColumn(o: IonizationLayerOptions): Ionizat
     const switchTemperature = quiescent ? (cell.quiescentTemperature ?? cell.temperature) : cell.temperature;
     stats.calls++;
     const gm = omega * omega * radius * radius * radius;
-    const zetaRadio = radionuclideRate(rn.zetaAl26, rn.zetaK40, rn.meanLife, time);
+    if (time !== rateTime) {
+      rateTime = time;
+      rateNow = radionuclideRate(rn.zetaAl26, rn.zetaK40, rn.meanLife, time);
+    }
+    const zetaRadio = rateNow;
     // GM is read from each cell's Ω²R³, which differ in the last bits from cell to cell: a floor of 1e-12 keeps
     // tolerance 0 from treating that round-off as a change of M_* (and re-running every cell at every call).
     if (changed(gm, refGm, Math.max(tol, 1e-12)) || changed(zetaRadio, refZetaRadio, tol)) {
       refGm = gm;
       refZetaRadio = zetaRadio;
+      sources = { ...o.sources, zetaRadio };
       generation++;
       stats.globalRefreshes++;
     }
@@ -137,7 +148,7 @@ export function createIonizationActiveColumn(o: IonizationLayerOptions): Ionizat
       ion = wasFull[index] === 1 ? sigma : Math.min(ionActive[index], sigma);
     } else {
       const state = { sigma, temperature: cell.temperature, thermalIonizationTemperature: switchTemperature, radius, omega };
-      const ctx = prepareColumn(state, { ...o.sources, zetaRadio: refZetaRadio }, o.physics);
+      const ctx = prepareColumn(state, sources, o.physics);
       // The cell's last boundary, if it had one, brackets the new one in two evaluations most of the time.
       const hint = lastGeneration[index] > 0 && wasFull[index] === 0 && ionActive[index] > 0 ? 0.5 * ionActive[index] : NaN;
       const r = solveActiveColumn(ctx, o.nz, scratch, hint);
