@@ -19,7 +19,7 @@ import { runModel } from '../../worker/model.js';
 const PINNED = {
   version: '0.7.0',
   tables: '7ad84c0dacfa3a96d5c3894e616c2c2fdf03846a759577b5d8d7a288897d600f',
-  disk_model: '77b6f89678f8034f1bfaad2064b7e76ec01082d7f120094f24b0d4422f5be93d',
+  disk_model: '57d25c6beafb2f6ea726a99b69187ddffd9c26a6a64c9902e0cd3e8855e7bc78',
 };
 
 function fingerprints(): typeof PINNED {

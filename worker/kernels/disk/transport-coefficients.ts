@@ -98,7 +98,7 @@ function heatingBalance(physics: TransportPhysics, inertiaDt: number, trial: Hea
     trial.alpha = gi === null ? trial.alphaLayer : trial.alphaLayer + trial.alphaGi;
     trial.kappa = opacity.isConstant ? opacity.kappa(0, t) : opacity.kappa((s * om) / (SQRT_2PI * Math.sqrt(SOUND_SPEED2_PER_K * t)), t);
     const a = viscousHeatingCoefficient(trial.kappa, s, trial.alpha, om);
-    const tEq = solveMidplaneTemperature(a, baseTemperature4[i]);
+    const tEq = solveMidplaneTemperature(a, baseTemperature4[i], t);
     return Number.isNaN(trial.tOld) ? tEq : relaxTemperature(a, baseTemperature4[i], trial.tOld, coolingRateCoefficient(trial.kappa, s) * inertiaDt, tEq);
   };
 }
@@ -106,9 +106,10 @@ function heatingBalance(physics: TransportPhysics, inertiaDt: number, trial: Hea
 /** The cell's temperature from `t`, with `trial` filled in at it (α, κ). */
 function solveCellTemperature(physics: TransportPhysics, balance: (t: number) => number, trial: HeatingTrial, t: number): number {
   const first = balance(t);
-  // The balance depends on T only through α_GI and κ. With κ constant and α_GI = 0 both at t and at T' = T_eq(t)
-  // (Q ≥ Q_crit at both; always so without GI), the balance at T' uses the same α and κ as at t and returns T'
-  // again, bit for bit: T' is the fixed point, and the second evaluation the iteration would spend is skipped.
+  // The balance depends on T only through α_GI and κ (and, in its last bits, through the Newton start). With κ
+  // constant and α_GI = 0 both at t and at T' = T_eq(t) (Q ≥ Q_crit at both; always so without GI), the balance at
+  // T' uses the same α and κ as at t and returns T' again to round-off: T' is the fixed point, and the second
+  // evaluation the iteration would spend is skipped.
   if (physics.opacity.isConstant && trial.alphaGi === 0 && alphaGiAt(physics.gi, trial, first) === 0) return first;
   return nonIncreasingFixedPoint(balance, t, TEMPERATURE_TOL, MAX_EVALUATIONS, first);
 }

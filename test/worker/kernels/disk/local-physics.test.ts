@@ -17,6 +17,20 @@ describe('midplane temperature T^4 = A T + C', () => {
     expect(Math.abs(t ** 4 - a * t - c) / t ** 4).toBeLessThan(1e-12);
   });
 
+  it.each([
+    ['far above', 1e6], ['just above', 1.0001], ['at', 1], ['just below', 0.9999], ['below', 0.5], ['far below', 1e-6],
+    ['0', 0], ['NaN', NaN], ['Infinity', Infinity], ['past overflow', 1e100],
+  ])('a start guess %s the root gives the same root (to 1e-13) as the closed-form start', (_label, factor) => {
+    // A = 1e9, C = 1e4 (viscous heating dominates): the root is near A^{1/3} = 1000 K.
+    for (const [a, c] of [[1e9, 1e4], [1e3, 1e8], [0, 81e8], [27e6, 0]]) {
+      const root = solveMidplaneTemperature(a, c);
+      const t = solveMidplaneTemperature(a, c, factor * root);
+      expect(Math.abs(t - root) / root).toBeLessThan(1e-13);
+      expect(Math.abs(t ** 4 - a * t - c) / t ** 4).toBeLessThan(1e-12);
+    }
+    expect(solveMidplaneTemperature(0, 0, factor)).toBe(0);
+  });
+
   it('limits: C^{1/4} without heating, A^{1/3} without irradiation, 0 for neither', () => {
     expect(solveMidplaneTemperature(0, 81e8)).toBeCloseTo(300, 10);
     expect(solveMidplaneTemperature(27e6, 0)).toBeCloseTo(300, 10);

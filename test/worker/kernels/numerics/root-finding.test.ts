@@ -85,7 +85,7 @@ describe('midplane temperature under gravitational instability near marginal sta
     }
   });
 
-  it('where Q ≥ q_crit at the answer, the pass returns T_eq of α without GI exactly, from cold or hot starts', () => {
+  it('where Q ≥ q_crit at the answer, the pass returns T_eq of α without GI, from cold or hot starts', () => {
     // Σ = 10³ g cm⁻² at 1.9 AU: T ≈ 212 K and Q ≈ 22 (c_s Ω / (π G Σ), Toomre 1964), far above q_crit = 2.
     const sigma = 1e3;
     const expected = solveMidplaneTemperature(viscousHeatingCoefficient(1, sigma, 1e-4, omega), base4);
@@ -94,8 +94,9 @@ describe('midplane temperature under gravitational instability near marginal sta
     expect(alphaGravitationalInstability(Math.sqrt(SOUND_SPEED2_PER_K * 1), omega, sigma, 2, 0.1)).toBeGreaterThan(0);
     for (const tStart of [1, 150, expected, 5000]) {
       const { t, nu } = coefficientsAt(sigma, tStart);
-      expect(t).toBe(expected);
-      expect(nu).toBe((1e-4 * (SOUND_SPEED2_PER_K * expected)) / omega);
+      // To the 1e-13 of the quartic's Newton solve (its last bits depend on where it starts).
+      expect(Math.abs(t - expected) / expected).toBeLessThan(1e-13);
+      expect(Math.abs(nu - (1e-4 * SOUND_SPEED2_PER_K * expected) / omega) / nu).toBeLessThan(1e-13);
     }
   });
 
