@@ -422,7 +422,7 @@ export const PARAMS = {
   }),
   picard_iterations: num({
     unit: '1', default: 0, min: 0, max: 20, integer: true,
-    description: 'Extra solves per step with nu recomputed from the new Sigma (0 = nu lagged one step).',
+    description: 'Extra Newton iterations per step: nu and its flux linearisation recomputed about the latest Sigma (0 = one linearised solve per step).',
   }),
   step_change: num({
     unit: '1', default: 0.05, min: 1e-4, max: 1,

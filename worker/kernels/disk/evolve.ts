@@ -139,7 +139,11 @@ export function evolveDisk(setup: EvolveSetup, observer: EvolveObserver = {}): E
   const source = new Float64Array(n);
   const ws = makeTransportWorkspace(n);
   const lin = setup.linearizeFlux === true
-    ? { sigma: new Float64Array(n), nu: new Float64Array(n), temperature: new Float64Array(n), nuImplicit: new Float64Array(n), offset: new Float64Array(n) }
+    ? {
+      sigma: new Float64Array(n), nu: new Float64Array(n), temperature: new Float64Array(n), nuImplicit: new Float64Array(n), offset: new Float64Array(n),
+      // The linearisation about a later iterate (picard_iterations) lives apart: a redone try restarts from the first.
+      iterate: new Float64Array(n), iterateNuImplicit: new Float64Array(n), iterateOffset: new Float64Array(n),
+    }
     : null;
   const events = sortedEvents(setup);
   const winds = setup.winds ?? null;
@@ -214,7 +218,10 @@ export function evolveDisk(setup: EvolveSetup, observer: EvolveObserver = {}): E
       if (lin !== null && retry === 0) {
         perturbSigma(sigma, lin.sigma);
         lin.temperature.set(fields.temperature);
-        computeTransportCoefficients(grid, lin.sigma, omega, physics, { nu: lin.nu, temperature: lin.temperature, derivativeProbe: true }, t);
+        // Time since the state 0: with thermal inertia the probe holds T where the state pass left it (T lags Σ;
+        // an equilibrium T here would differ from the state's by far more than ε changes it, and the quotient
+        // would be that difference over ε); without inertia the argument is unused.
+        computeTransportCoefficients(grid, lin.sigma, omega, physics, { nu: lin.nu, temperature: lin.temperature, derivativeProbe: true }, t, 0);
         linearizeFlux(sigma, grid.sqrtCenters, fields.nu, lin.nu, lin.nuImplicit, lin.offset);
       }
       const withoutWinds = {
@@ -232,7 +239,18 @@ export function evolveDisk(setup: EvolveSetup, observer: EvolveObserver = {}): E
       for (let k = 0; k < setup.picardIterations; k++) {
         tempScratch.set(fields.temperature);
         computeTransportCoefficients(grid, sigmaNew, omega, physics, { nu: nuNew, temperature: tempScratch }, t + dtTry, dtTry);
-        flows = viscousStep({ ...input, nuImplicit: nuNew, implicitOffset: null }, ws, sigmaNew);
+        if (lin === null) {
+          flows = viscousStep({ ...input, nuImplicit: nuNew, implicitOffset: null }, ws, sigmaNew);
+          continue;
+        }
+        // A Newton iteration: the flux re-linearised about the latest iterate (a plain re-solve with ν(Σ_new)
+        // would drop the linearisation and, across a steep switch, oscillate between iterates).
+        lin.iterate.set(sigmaNew);
+        perturbSigma(lin.iterate, lin.sigma);
+        lin.temperature.set(tempScratch);
+        computeTransportCoefficients(grid, lin.sigma, omega, physics, { nu: lin.nu, temperature: lin.temperature, derivativeProbe: true }, t + dtTry, 0);
+        linearizeFlux(lin.iterate, grid.sqrtCenters, nuNew, lin.nu, lin.iterateNuImplicit, lin.iterateOffset);
+        flows = viscousStep({ ...input, nuImplicit: lin.iterateNuImplicit, implicitOffset: lin.iterateOffset }, ws, sigmaNew);
       }
       const removal = winds !== null && windWs !== null ? windRemoval(winds, grid, sigmaNew, windWs) : null;
 
