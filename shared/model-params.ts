@@ -119,7 +119,7 @@ export const PARAMS = {
   }),
   active_layer: choice({
     choices: ['uniform', 'fixed_column', 'ionization'],
-    default: 'uniform',
+    default: 'ionization',
     description:
       'Which MRI-active column Sigma_a the transport uses: "uniform" = the whole column is active; ' +
       '"fixed_column" = an active layer of sigma_active_face_g_cm2 on each face (Gammie 1996); ' +

@@ -5,9 +5,10 @@
  * stayed put, and a resumed sweep recomputed nothing). This test pins the version to fingerprints of all
  * three; when it fails, bump MODEL_VERSION and then copy the fingerprints the failure prints.
  *
- * The model fingerprint covers one short disk-start run (the timing part excluded), so a physics change that
- * moves its outputs by one bit is caught; a change confined to paths that run does not take (infall, the
- * ionization provider) is caught only by the table fingerprint, if at all. Common practice, no source.
+ * The model fingerprints cover one short disk-start run and one short infall run with the default physics
+ * (ionization dead zone, GI, winds, accretion luminosity; the timing part excluded), so a physics change that
+ * moves their outputs by one bit is caught; a change confined to paths neither takes (another provider, a
+ * switched-off wind) is caught only by the table fingerprint, if at all. Common practice, no source.
  */
 import { describe, expect, it } from 'vitest';
 import { contentHash } from '../../shared/hashing.js';
@@ -18,23 +19,26 @@ import { runModel } from '../../worker/model.js';
 
 const PINNED = {
   version: '0.7.0',
-  tables: '7ad84c0dacfa3a96d5c3894e616c2c2fdf03846a759577b5d8d7a288897d600f',
-  disk_model: '57d25c6beafb2f6ea726a99b69187ddffd9c26a6a64c9902e0cd3e8855e7bc78',
+  tables: '4492ad446ef13dd24a037fd12260e6fbb077646837cf697a15becf5b8f3f5570',
+  disk_model: 'b0d9ef18529ff85955a4c3d49d6f85546ad8e727c9b98232916a4b07d62aa7bb',
+  infall_model: 'e6840cd6b3c11f419061845645ccb5af0a371d3c52601016ad79de954dffab85',
 };
 
 function fingerprints(): typeof PINNED {
   const { timing: _timing, ...outputs } = runModel({ initial_state: 'disk', t_end_myr: 1 });
+  const { timing: _infallTiming, ...infall } = runModel({ t_end_myr: 0.3, n_cells: 80, checkpoints_myr: [0.1, 0.3] });
   return {
     version: MODEL_VERSION,
     tables: contentHash({ params: DEFAULT_PARAMS, outputs: OUTPUTS.map((o) => [o.name, o.unit]), series: SERIES_COLUMNS }),
     disk_model: contentHash(outputs),
+    infall_model: contentHash(infall),
   };
 }
 
 describe('MODEL_VERSION', () => {
   it('is bumped whenever the parameter table, the output registry or a model result changes', () => {
     const now = fingerprints();
-    const changed = now.tables !== PINNED.tables || now.disk_model !== PINNED.disk_model;
+    const changed = now.tables !== PINNED.tables || now.disk_model !== PINNED.disk_model || now.infall_model !== PINNED.infall_model;
     const hint = `parameters/outputs/results changed: bump MODEL_VERSION (now ${MODEL_VERSION}) and pin ${JSON.stringify(now)}`;
     if (changed) expect(now.version, hint).not.toBe(PINNED.version);
     expect(now, hint).toEqual(PINNED);

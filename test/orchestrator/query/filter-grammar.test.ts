@@ -180,8 +180,10 @@ describe('injection attempts on a writable connection', () => {
     // A valid choice compare whose literal is SQL: refused by the choice check, never run.
     expect(() => evaluateTargets(store, { targets: [], where: "active_layer = 'uniform; DROP TABLE results'" })).toThrow(/one of 'uniform'/);
     // With != the value is a plain bound string: every point differs from it.
-    const ev = evaluateTargets(store, { targets: [], where: "active_layer != 'uniform'" });
+    // (The stored points hold the default, 'ionization'.)
+    const ev = evaluateTargets(store, { targets: [], where: "active_layer != 'ionization'" });
     expect(ev.counts.selected).toBe(0);
-    expect(evaluateTargets(store, { targets: [], where: "active_layer = 'uniform'" }).counts.selected).toBe(2);
+    expect(evaluateTargets(store, { targets: [], where: "active_layer = 'ionization'" }).counts.selected).toBe(2);
+    expect(evaluateTargets(store, { targets: [], where: "active_layer = 'uniform'" }).counts.selected).toBe(0);
   });
 });

@@ -107,9 +107,10 @@ describe('point ids', () => {
     const explicit = sourceOf({
       name: 'explicit',
       model: { ...TINY_MODEL, checkpoints_myr: [0.1, 0.2, 0.5, 1], theta: 1 },
-      fixed: { ...TINY_FIXED, alpha_dead: 1e-4, active_layer: 'uniform' },
+      fixed: { ...TINY_FIXED, alpha_dead: 1e-4, active_layer: 'ionization' },
       vary: { alpha_active: { values: [0.01] } },
     });
+    expect(explicit.taskAt(0).params.active_layer).toBe('ionization');
     expect(explicit.taskAt(0).params.checkpoints_myr).toEqual([0.1, 0.2]);
     expect(explicit.taskAt(0).pointId).toBe(plain.taskAt(0).pointId);
   });

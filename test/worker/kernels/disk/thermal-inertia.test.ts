@@ -105,7 +105,7 @@ describe('thermal inertia in the coefficient pass and in a model', () => {
     expect(Math.abs(long.temperature[0] - tEq) / tEq).toBeLessThan(1e-3);
   });
 
-  it('thermal_inertia=on changes a uniform disk model little (t_cool << t_visc) and keeps its budgets', () => {
+  it('thermal_inertia=on changes a disk model (with its dead zone) little (t_cool << t_visc) and keeps its budgets', () => {
     const off = runModel({ initial_state: 'disk', n_cells: 100, t_end_myr: 1, checkpoints_myr: [0.1, 1] });
     const on = runModel({ initial_state: 'disk', n_cells: 100, t_end_myr: 1, checkpoints_myr: [0.1, 1], thermal_inertia: 'on' });
     expect(on.status).toBe('ok');
