@@ -34,9 +34,11 @@ Exit codes:
 const MODEL_HELP = `
 Runs one 1-D viscous accretion-disk model: a seed star inside a collapsing cloud core (the default) or a
 ready-made disk, evolved to t_end_myr, and prints checkpoints, the solar-like split, budgets and a plot.
+Transport is MRI turbulence where the gas is ionized enough, with dead zones elsewhere (active_layer).
 
 Examples:
   disksweep model                                   the default infall model, 5 Myr
+  disksweep model --set active_layer=uniform        no dead zones (whole column active; ~10x fewer steps)
   disksweep model --set alpha_active=1e-3 --set t_end_myr=3
   disksweep model --set initial_state=disk --set m_disk_msun=0.1 --set r1_au=20
   disksweep model --set active_layer=fixed_column --set alpha_dead=1e-5 --json > run.json
@@ -44,7 +46,10 @@ Examples:
 
 Validity limits: thin, Keplerian, axisymmetric disk around a point-mass star (self-gravity only through the
 Toomre-Q transport term; M_disk/M_* > 0.3 is flagged); vertically averaged, one-zone thermal structure;
-the Shu/Cassen-Moosman infall is the slowly rotating isothermal-sphere solution.`;
+the Shu/Cassen-Moosman infall is the slowly rotating isothermal-sphere solution. The ionization chemistry
+is grain-free: dust would lower x_e and shrink the active layers a lot, so read them as upper bounds. The
+thermal MRI switch reads the dead column's (quiescent) temperature: self-sustained MRI outbursts are not
+followed (activity_temperature=midplane follows them, slowly).`;
 
 function modelCommand(): Command {
   return new Command('model')
