@@ -23,30 +23,24 @@ export function viscousHeatingCoefficient(kappa: number, sigma: number, alpha: n
 }
 
 /**
- * The positive root of f(T) = T^4 − A T − C (A, C ≥ 0) by Newton's method. f is convex for T > 0 and f′ > 0 at
- * and above the root, so Newton from any point above the root descends monotonically onto it. The start:
- * - `guess` (a nearby temperature, e.g. the one the caller evaluated A at) when it lies in [T*, 2T*]: f ≥ 0 puts
- *   it above the root T*, and T^4 ≤ 8 (A T + C) within 2T* (at T = kT*, k ≥ 1, A T + C ≤ k T*^4, so the ratio
- *   is ≥ k³);
- * - one Newton step from a guess below the root, when it lands within twice the guess (the tangent of a convex f
- *   lies below f, so the step lands above the root, and the root within that factor 2 of the guess);
- * - otherwise T_0 = C^{1/4} + A^{1/3} ((a+b)^4 ≥ a^4 + b^3 (a+b) for a, b ≥ 0), also within 2T*.
- * A guess within a few per cent saves the cube root and two of the ~5 steps from T_0. Converges to a relative
- * 1e-13; the last bits of the root depend on the start.
+ * The positive root T* of f(T) = T^4 − A T − C (A, C ≥ 0) by Newton's method. f is convex for T > 0 and f′ > 0
+ * at and above T*, so Newton from any point above T* descends monotonically onto it, and quickly from within 2T*.
+ * The start: `guess` (a nearby temperature, e.g. the one the caller evaluated A at) when f(guess) ≥ 0 (it lies
+ * above T*) and T^4 ≤ 8 (A T + C) there (it lies within 2T*: at T = kT*, k ≥ 1, A T + C ≤ k T*^4, so the ratio is
+ * ≥ k³); else one Newton step from a guess below T*, which lands above T* (the tangent of a convex f lies below
+ * f) when f′ > 0 there, taken when it lands within twice the guess (so within 2T*); else T_0 = C^{1/4} + A^{1/3}
+ * ((a+b)^4 ≥ a^4 + b^3 (a+b) for a, b ≥ 0), also within 2T*. A guess within a few per cent saves the cube root
+ * and two of the ~5 steps from T_0. Converges to a relative 1e-13; the last bits of T* depend on the start.
  */
 export function solveMidplaneTemperature(a: number, c: number, guess = NaN): number {
   if (a === 0 && c === 0) return 0;
   let t = NaN;
   if (guess > 0 && guess < Infinity) {
     const g3 = guess * guess * guess;
-    const g4 = g3 * guess;
     const heat = a * guess + c;
-    if (g4 >= heat) {
-      if (g4 <= 8 * heat) t = guess;
-    } else if (4 * g3 > a) {
-      const t1 = guess - (g4 - heat) / (4 * g3 - a);
-      if (t1 <= 2 * guess) t = t1;
-    }
+    const f = g3 * guess - heat;
+    const start = f >= 0 ? guess : guess - f / (4 * g3 - a);
+    if (f <= 7 * heat && start >= guess && start <= 2 * guess) t = start;
   }
   if (!(t > 0)) t = Math.sqrt(Math.sqrt(c)) + Math.cbrt(a);
   for (let k = 0; k < 60; k++) {
