@@ -258,8 +258,11 @@ export const PARAMS = {
       'active_layer=ionization: a cell re-runs the ionization kernel when its Sigma or T changed by more than this ' +
       '(relative) since its last evaluation, all cells when M_* or the radionuclide rate did; 0 = every time.',
     source:
-      '`npm run bench`: on the default infall model at 0.01 every checkpoint output stays within 0.77 % of ' +
-      're-evaluating every time (1.07 % at 0.02, in Sigma_a at 1 AU)',
+      '`npm run bench` (section ionization; model 0.7.0), default infall model, 0.01 against 0: dead-zone edges ' +
+      'within one cell (the inner one a cell apart at 0.5 Myr, and with it Mdot_* 1.1 % and L_acc 1.0 % apart); the ' +
+      'other outputs within 0.9 %, except those read in the cell at 1 AU, at the foot of the thermal blend there ' +
+      '(Sigma_a 17 %, active share 2.5 %; step_change 0.05 against 0.045 alone moves them 7.9 % and 1.4 %). ' +
+      'Smaller tolerances do no better (0.002: Sigma_a at 1 AU 17 %, Mdot_* 0.99 %).',
   }),
   gi_transport: choice({
     choices: ['on', 'off'],

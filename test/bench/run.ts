@@ -10,7 +10,8 @@
  *   validation_disk  runModel({ initial_state: 'disk' })
  *   ionization       a variant of the default model without the thermal switch, an irradiated disk, the share of
  *                    model time spent in the ionization kernel (replay), and the refresh-tolerance accuracy check
- *                    on the default model (ionization-bench.ts)
+ *                    per output, next to the integration's own noise floor, on the default model and the
+ *                    irradiated disk (ionization-bench.ts)
  *   winds            what the photoevaporation modules cost per model (default X-ray wind; all winds on a disk),
  *                    timed on the model's own states (winds-bench.ts)
  *   sqlite_ingest, sweep_parallel_efficiency, noop_overhead, orchestrator_rss
@@ -191,7 +192,8 @@ async function main(): Promise<void> {
     what:
       'active_layer=ionization (the default; the default model is default_infall): a variant without the thermal ' +
       'switch, and an irradiated disk; ionization_share by replaying the recorded Sigma_a; refresh accuracy = ' +
-      'default ion_refresh_tol against 0',
+      'default ion_refresh_tol against 0 per checkpoint output (edges in grid cells), with the noise floor: ' +
+      'ion_refresh_tol 0 at step_change against 0.9 x step_change',
     default_infall_ionization_no_thermal: ionNoThermal,
     disk_ionization: ionDisk,
     share_default: benchIonizationShare({}, 3),
