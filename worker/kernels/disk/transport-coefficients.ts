@@ -107,11 +107,13 @@ function relaxedTemperature(trial: HeatingTrial, c: number, a: number, tEq: numb
 
 function heatingBalance(physics: TransportPhysics, inertiaDt: number, trial: HeatingTrial): (t: number) => number {
   const { opacity, gi, baseTemperature4 } = physics;
+  // A constant κ is asked for once per pass (it depends on neither ρ nor T).
+  const kappaConstant = opacity.isConstant ? opacity.kappa(0, 0) : NaN;
   return (t) => {
     const c = baseTemperature4[trial.i];
     trial.alphaGi = alphaGiAt(gi, trial, t);
     trial.alpha = trial.alphaLayer + trial.alphaGi;
-    trial.kappa = opacity.isConstant ? opacity.kappa(0, t) : kappaAtMidplane(opacity, trial, t);
+    trial.kappa = opacity.isConstant ? kappaConstant : kappaAtMidplane(opacity, trial, t);
     const a = viscousHeatingCoefficient(trial.kappa, trial.s, trial.alpha, trial.om);
     const tEq = solveMidplaneTemperature(a, c, t);
     return Number.isNaN(trial.tOld) ? tEq : relaxedTemperature(trial, c, a, tEq, inertiaDt);
