@@ -23,7 +23,15 @@
  * α_eff rise monotonically with Σ: νΣ is monotonic and the edge is a steady, regulated front. What is lost:
  * thermal–viscous cycles and MRI outbursts sustained by their own heating (GI heating still counts, so a pile-up
  * that heats by GI is activated, but steadily). 'midplane' keeps the self-heated switch, with its cycles and
- * its cost. Grain-free, vertically isothermal: see README validity limits.
+ * its cost. With the Saha branch the whole kernel (recombination, η, the scale height and density of the
+ * column) sees the quiescent temperature too: there the alkali ions make x_e nearly uniform with height
+ * (x_e ∝ ρ^{-1/2}), so Re = c_s H/η ≈ Re_mid (ρ₀/ρ)^{1/2} is nearly flat through the column and the
+ * boundary moves across all of it for a small change of Re_mid ∝ T^{3/4}. With the midplane temperature there, a
+ * column at Σ ~ 5000 g cm⁻² near 0.17 AU of the default infall model gave Σ_a = 480, 1150 or all 4890 for Σ
+ * 2 % lower, equal or higher, and ended fully active or partly so depending on the temperature it started from:
+ * the bistability the quiescent temperature exists to remove. To keep that temperature continuous, the Saha
+ * branch asks for it at every midplane temperature (`quiescentFrom` 0).
+ * Grain-free, vertically isothermal: see README validity limits.
  * The cache lives in the provider, `reset` empties it, and the integrator calls `reset` at the start of a run;
  * the calls come in the same order in every run, so the same parameters give the same numbers, bit for bit.
  */
@@ -60,8 +68,10 @@ export interface IonizationLayerOptions {
   readonly refreshTolerance: number;
   /**
    * Which temperature the thermal switch and the Saha ions of the kernel see: 'quiescent' = the dead column's
-   * (`ActiveLayerInput.quiescentTemperature`), 'midplane' = the midplane temperature itself. Recombination and
-   * η always see the midplane temperature (they follow it as √T, too weakly to make a column bistable).
+   * (`ActiveLayerInput.quiescentTemperature`), 'midplane' = the midplane temperature itself. Under the threshold
+   * switch, recombination, η and the column's scale height see the midplane temperature (with x_e falling by
+   * orders of magnitude with depth, their √T-like dependence moves the boundary little); with the Saha branch
+   * they see the quiescent one as well (see above).
    */
   readonly activityTemperature: 'quiescent' | 'midplane';
 }
@@ -76,8 +86,11 @@ export interface IonizationLayerStats {
 
 export type IonizationActiveColumn = ActiveColumn & { readonly stats: IonizationLayerStats };
 
-/** See `quiescentFrom` below. */
-const SAHA_QUIESCENT_FROM_K = 800;
+/**
+ * Temperature from which the alkali ions can matter: in Saha equilibrium they give x_e < 1e-14 at 800 K and
+ * n ~ 1e14 cm⁻³ (saha.ts), three orders below the ~1e-11 an active midplane needs at 1 AU with Re_crit ~ 100.
+ */
+const SAHA_STEEP_FROM_K = 800;
 
 const changed = (now: number, then: number, tol: number): boolean => !(Math.abs(now - then) <= tol * Math.abs(then));
 
@@ -102,6 +115,7 @@ export function createIonizationActiveColumn(o: IonizationLayerOptions): Ionizat
   let rateTime = NaN;
   let rateNow = NaN;
   const quiescent = o.activityTemperature === 'quiescent';
+  const sahaQuiescent = quiescent && o.physics.alkalis !== null;
 
   const reset = (): void => {
     lastGeneration.fill(0);
@@ -137,7 +151,7 @@ export function createIonizationActiveColumn(o: IonizationLayerOptions): Ionizat
     let ion: number;
     // Where alkali ions can matter, Σ_a follows T steeply (x_e ∝ exp(−χ/2kT): ~25 % per 1 % of T at 1000 K), so
     // no cached value stands in, not even in the derivative probe: the flux linearisation must see dΣ_a/dΣ.
-    const steep = o.physics.alkalis !== null && switchTemperature >= SAHA_QUIESCENT_FROM_K;
+    const steep = o.physics.alkalis !== null && switchTemperature >= SAHA_STEEP_FROM_K;
     if (
       !steep &&
       lastGeneration[index] === generation &&
@@ -147,7 +161,7 @@ export function createIonizationActiveColumn(o: IonizationLayerOptions): Ionizat
     ) {
       ion = wasFull[index] === 1 ? sigma : Math.min(ionActive[index], sigma);
     } else {
-      const state = { sigma, temperature: cell.temperature, thermalIonizationTemperature: switchTemperature, radius, omega };
+      const state = { sigma, temperature: sahaQuiescent ? switchTemperature : cell.temperature, thermalIonizationTemperature: switchTemperature, radius, omega };
       const ctx = prepareColumn(state, sources, o.physics);
       // The cell's last boundary, if it had one, brackets the new one in two evaluations most of the time.
       const hint = lastGeneration[index] > 0 && wasFull[index] === 0 && ionActive[index] > 0 ? 0.5 * ionActive[index] : NaN;
@@ -164,16 +178,16 @@ export function createIonizationActiveColumn(o: IonizationLayerOptions): Ionizat
     }
     return blendThermal(sigma, ion, w);
   };
-  // Below these midplane temperatures the quiescent one would change nothing that matters, so the midplane
-  // temperature stands in for it (and saves a second temperature solve per cell): under the thermal switch
-  // nothing switches, and alkali metals in Saha equilibrium give x_e < 1e-14 at 800 K and n ~ 1e14 cm⁻³
-  // (saha.ts), three orders below the ~1e-11 an active midplane needs at 1 AU with Re_crit ~ 100.
+  // Below T_MRI − ΔT the quiescent temperature would change nothing under the thermal switch, so the midplane
+  // temperature stands in for it there (and saves a second temperature solve per cell). The Saha branch needs it
+  // at every temperature: its whole kernel sees it, and a switch from one temperature to the other at some
+  // midplane temperature would make Σ_a jump there.
   const quiescentFrom = !quiescent
     ? undefined
     : o.thermal.kind === 'threshold'
       ? o.thermal.tMri - o.thermal.halfWidth
-      : o.physics.alkalis !== null
-        ? SAHA_QUIESCENT_FROM_K
+      : sahaQuiescent
+        ? 0
         : undefined;
   return Object.assign(column, { reset, stats, quiescentFrom });
 }

@@ -146,17 +146,23 @@ describe('which temperature the thermal switch sees (activity_temperature)', () 
     expect(mid(hot(800))).toBe(1000); // the midplane switch ignores it
   });
 
-  it('Saha branch, quiescent: the alkali ions see the dead column\'s temperature, recombination and η the midplane one', () => {
+  it('Saha branch, quiescent: the whole kernel sees the dead column\'s temperature, at every midplane temperature', () => {
     const o = ionOptions({ thermal_ionization: 'saha', ion_refresh_tol: 0 });
     const p = createIonizationActiveColumn(o);
-    expect(p.quiescentFrom).toBe(800);
+    expect(p.quiescentFrom).toBe(0);
     const zeta = { ...o.sources, zetaRadio: 7.6e-19 + 1.1e-22 };
     const c = cell(0.3, 1000, 1400);
-    const kernel = (saha: number) => solveActiveColumn(prepareColumn({ ...c, thermalIonizationTemperature: saha }, zeta, o.physics), o.nz).sigmaActive;
-    // The choice matters at these temperatures (else the checks below could not fail).
-    expect(kernel(900)).toBeLessThan(kernel(1400));
-    expect(p({ ...c, quiescentTemperature: 900 })).toBe(kernel(900));
-    expect(p({ ...c, quiescentTemperature: 1400, index: 1 })).toBe(kernel(1400));
+    const kernel = (t: number, saha: number) =>
+      solveActiveColumn(prepareColumn({ ...c, temperature: t, thermalIonizationTemperature: saha }, zeta, o.physics), o.nz).sigmaActive;
+    // The choice matters at these temperatures, for the alkali ions and for the rest of the kernel alike (else the
+    // checks below could not fail).
+    expect(kernel(900, 900)).toBeLessThan(kernel(900, 1100));
+    expect(kernel(900, 1100)).toBeLessThan(kernel(1100, 1100));
+    expect(kernel(1400, 900)).toBeGreaterThan(kernel(900, 900));
+    expect(p({ ...c, quiescentTemperature: 900 })).toBe(kernel(900, 900));
+    expect(p({ ...c, quiescentTemperature: 1100, index: 1 })).toBe(kernel(1100, 1100));
+    // The midplane temperature (1400 K in `c`, the column's own solve) does not enter.
+    expect(p({ ...c, temperature: 3000, quiescentTemperature: 900, index: 2 })).toBe(kernel(900, 900));
   });
 
   it('Saha branch: where alkali ions can matter, even a derivative probe re-runs the kernel (Σ_a follows T steeply)', () => {
@@ -196,6 +202,31 @@ describe('which temperature the thermal switch sees (activity_temperature)', () 
     expect(Math.abs(qHot.t - qCold.t) / qCold.t).toBeLessThan(1e-9);
     expect(Math.abs(qHot.active - qCold.active)).toBeLessThan(1e-9);
     expect(qHot.active).toBeLessThan(0.5);
+  });
+});
+
+describe('Saha branch in the layered transport', () => {
+  it('a column near the inner dead-zone edge settles to one state from a hot and a cold start', () => {
+    // A column of the default infall model near 0.17 AU at ~0.09 Myr (Σ = 4790 g cm^-2, irradiation 918 K,
+    // M_* = 0.148 M_sun): with the midplane temperature in the kernel's c_s, H and η it settled a quarter active
+    // (2530 K) from 2400 K and fully active (3990 K) from 4000 K: its own MRI heating kept it active.
+    const rAu = 0.1747;
+    const grid = makeLogGrid(0.999 * rAu * AU_CGS, 1.001 * rAu * AU_CGS, 2);
+    const sigma = Float64Array.of(4790, 4790);
+    const omega = grid.centers.map((r) => Math.sqrt((0.148 * GM_SUN_CGS) / r ** 3));
+    const settle = (tStart: number) => {
+      const physics: TransportPhysics = {
+        alphaActive: 0.01, alphaDead: 1e-4, opacity: constantOpacity(1), gi: null, baseTemperature4: Float64Array.of(918 ** 4, 918 ** 4),
+        activeColumn: createIonizationActiveColumn({ ...ionOptions({ thermal_ionization: 'saha', ion_refresh_tol: 0 }), nCells: 2 }),
+      };
+      const fields = { nu: new Float64Array(2), temperature: Float64Array.of(tStart, tStart), sigmaActive: new Float64Array(2) };
+      for (let k = 0; k < 60; k++) computeTransportCoefficients(grid, sigma, omega, physics, fields);
+      return { t: fields.temperature[0], active: fields.sigmaActive[0] / sigma[0] };
+    };
+    const hot = settle(4000);
+    const cold = settle(2400);
+    expect(Math.abs(hot.t - cold.t) / cold.t).toBeLessThan(1e-9);
+    expect(Math.abs(hot.active - cold.active)).toBeLessThan(1e-9);
   });
 });
 
