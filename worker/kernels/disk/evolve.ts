@@ -23,7 +23,7 @@
  * would take steps of hours; the implicit step keeps it stable and positive and the budgets stay exact. The star's luminosity
  * for irradiation (stellar-luminosity.ts) follows the accretion rate of the last accepted step (lagged one step).
  */
-import { G_CGS, MYR_CGS } from '../../../shared/constants.js';
+import { AU_CGS, G_CGS, MYR_CGS } from '../../../shared/constants.js';
 import type { ModelStatus } from '../../../shared/model-result.js';
 import { diskAngularMomentum, diskMass } from './disk-diagnostics.js';
 import type { Budget, DiskState, EvolveObserver, EvolveOutcome } from './disk-state.js';
@@ -40,7 +40,7 @@ import {
 import type { TransportPhysics } from './transport-coefficients.js';
 import { computeTransportCoefficients } from './transport-coefficients.js';
 import type { EdgeCondition } from './viscous-transport.js';
-import { linearizeFlux, perturbSigma } from './flux-linearization.js';
+import { linearizationResidual, linearizeFlux, perturbSigma, secantUpdate } from './flux-linearization.js';
 import { makeTransportWorkspace, viscousStep } from './viscous-transport.js';
 import { advanceCavity, findInnerCavity, type InnerCavity } from './winds/inner-cavity.js';
 import { cavityCheckRadius, computeWindRates, fillSinkDt, makeWindWorkspace, windRemoval, type WindSetup } from './winds/wind-sink.js';
@@ -83,6 +83,14 @@ export interface EvolveSetup {
   readonly stepChange: number;
   /** Newton-linearised implicit flux (flux-linearization.ts) instead of lagged ν. */
   readonly linearizeFlux?: boolean;
+  /**
+   * With the linearised flux and no Picard iterations: after the step, ν at the new Σ gives the step's nonlinear
+   * residual (`linearizationResidual`); where it exceeds what the change control would redo (REDO_FACTOR ×
+   * stepChange, relative to the same Σ scale), the linearisation is replaced by chords (`secantUpdate`) and the
+   * step solved again, up to this many times, and then redone at half the step if still short. Costs one more
+   * coefficient pass per step. 0 or absent: one Newton iterate, unchecked.
+   */
+  readonly secantIterations?: number;
   readonly maxSteps: number;
   /** End time, s. */
   readonly tEnd: number;
@@ -145,6 +153,10 @@ export function evolveDisk(setup: EvolveSetup, observer: EvolveObserver = {}): E
       iterate: new Float64Array(n), iterateNuImplicit: new Float64Array(n), iterateOffset: new Float64Array(n),
     }
     : null;
+  const secantIterations = lin !== null && setup.picardIterations === 0 ? (setup.secantIterations ?? 0) : 0;
+  const secant = secantIterations > 0
+    ? { nuNew: new Float64Array(n), temperature: new Float64Array(n), residual: new Float64Array(n), nuImplicit: new Float64Array(n), offset: new Float64Array(n) }
+    : null;
   const events = sortedEvents(setup);
   const winds = setup.winds ?? null;
   const windWs = winds === null ? null : makeWindWorkspace(grid);
@@ -180,13 +192,27 @@ export function evolveDisk(setup: EvolveSetup, observer: EvolveObserver = {}): E
   };
   state.cavity = cavityNow();
   const fail = (status: ModelStatus, reason: string): EvolveOutcome => ({ status, reason, state });
+  // Which cell bound the step control (largest change or residual), per try and counted over accepted steps, so
+  // that a run that stalls says where and in what state.
+  let boundCell = -1;
+  const boundCount = new Int32Array(n);
+  const cellState = (i: number): string =>
+    `R = ${(grid.centers[i] / AU_CGS).toPrecision(3)} AU (Σ = ${sigma[i].toPrecision(3)} g cm^-2, Σ_a/Σ = ` +
+    `${sigma[i] > 0 ? (fields.sigmaActive[i] / sigma[i]).toPrecision(2) : '-'}, T = ${fields.temperature[i].toPrecision(3)} K)`;
+  const boundAt = (): string => (boundCell < 0 ? '' : `; the step control was bound at ${cellState(boundCell)}`);
 
   let dt = setup.initialDt;
   let dtTaken = 0;
   let next = 0;
   while (next < events.length) {
     if (state.steps >= setup.maxSteps) {
-      return fail('step_limit', `reached max_steps = ${setup.maxSteps} at t = ${(state.t / MYR_CGS).toPrecision(4)} Myr`);
+      let most = 0;
+      for (let i = 1; i < n; i++) if (boundCount[i] > boundCount[most]) most = i;
+      return fail(
+        'step_limit',
+        `reached max_steps = ${setup.maxSteps} at t = ${(state.t / MYR_CGS).toPrecision(4)} Myr; ${boundCount[most]} of the steps ` +
+          `were bound at ${cellState(most)}`,
+      );
     }
     const t = state.t;
     const tEvent = events[next];
@@ -202,8 +228,9 @@ export function evolveDisk(setup: EvolveSetup, observer: EvolveObserver = {}): E
       const landing = dt >= (tEvent - t) * (1 - 1e-12);
       const dtTry = landing ? tEvent - t : dt;
       if (!(dtTry > 1e-12 * setup.tEnd) && !landing) {
-        return fail('step_collapse', `time step fell to ${dtTry.toExponential(3)} s at t = ${t.toExponential(4)} s`);
+        return fail('step_collapse', `time step fell to ${dtTry.toExponential(3)} s at t = ${t.toExponential(4)} s${boundAt()}`);
       }
+      boundCell = -1;
       let toStar = 0;
       let jToStar = 0;
       if (infallOn) {
@@ -237,6 +264,42 @@ export function evolveDisk(setup: EvolveSetup, observer: EvolveObserver = {}): E
         input.sinkDt = fillSinkDt(winds, grid, sigmaNew, dtTry, windWs);
       }
       let flows = viscousStep(input, ws, sigmaNew);
+      const floor = 1e-6 * sigmaMaxOld;
+      // Σ scale of cell i for the change measure, or 0 where the step control skips the cell (see the header).
+      const controlScale = (i: number): number => {
+        if (i < firstControlled || sigmaMaxOld <= 0) return 0;
+        // Wind-dominated cells, and those the wind eats below the floor, hold what this step's inflow left behind.
+        if (windWs !== null && (windWs.windDominated[i] === 1 || (windWs.capacity[i] > 0 && sigma[i] < floor && sigmaNew[i] < floor))) return 0;
+        const added = infallOn ? (dtTry * source[i]) / grid.area[i] : 0;
+        const capacity = windWs !== null ? windWs.capacity[i] : 0;
+        return sigma[i] + added + capacity + floor;
+      };
+      let converged = true;
+      if (secant !== null && lin !== null) {
+        secant.nuImplicit.set(lin.nuImplicit);
+        secant.offset.set(lin.offset);
+        const edgeZeroTorque = { inner: edges?.inner === undefined, outer: edges?.outer === undefined };
+        const step = { sigmaNew, nuNew: secant.nuNew, nuImplicit: secant.nuImplicit, offset: secant.offset };
+        for (let k = 0; ; k++) {
+          // ν(Σ') of the same function the linearisation differentiated: start-of-step physics, probe mode.
+          secant.temperature.set(fields.temperature);
+          computeTransportCoefficients(grid, sigmaNew, omega, physics, { nu: secant.nuNew, temperature: secant.temperature, derivativeProbe: true }, t);
+          linearizationResidual(grid, step, theta * dtTry, edgeZeroTorque, secant.residual);
+          let worst = 0;
+          for (let i = 0; i < n; i++) {
+            const scale = controlScale(i);
+            const r = scale > 0 ? Math.abs(secant.residual[i]) / scale : 0;
+            if (r > worst) {
+              worst = r;
+              boundCell = i;
+            }
+          }
+          converged = worst <= REDO_FACTOR * setup.stepChange;
+          if (converged || k === secantIterations) break;
+          secantUpdate(sigma, grid.sqrtCenters, fields.nu, step, secant.nuImplicit, secant.offset);
+          flows = viscousStep({ ...input, nuImplicit: secant.nuImplicit, implicitOffset: secant.offset }, ws, sigmaNew);
+        }
+      }
       for (let k = 0; k < setup.picardIterations; k++) {
         tempScratch.set(fields.temperature);
         computeTransportCoefficients(grid, sigmaNew, omega, physics, { nu: nuNew, temperature: tempScratch }, t + dtTry, dtTry);
@@ -275,19 +338,23 @@ export function evolveDisk(setup: EvolveSetup, observer: EvolveObserver = {}): E
         state.rejectedSteps++;
         continue;
       }
+      if (!converged) {
+        // The secant iterations did not settle the step: a shorter one moves less far along G(Σ).
+        dt = dtTry * 0.5;
+        state.rejectedSteps++;
+        continue;
+      }
       let change = 0;
-      const floor = 1e-6 * sigmaMaxOld;
-      for (let i = firstControlled; i < n && sigmaMaxOld > 0; i++) {
-        // Wind-dominated cells, and those the wind eats below the floor, hold what this step's inflow left behind.
-        if (windWs !== null && (windWs.windDominated[i] === 1 || (windWs.capacity[i] > 0 && sigma[i] < floor && sigmaNew[i] < floor))) continue;
-        const added = infallOn ? (dtTry * source[i]) / grid.area[i] : 0;
-        const taken = removal !== null ? windLoss[i] / grid.area[i] : 0;
-        const capacity = windWs !== null ? windWs.capacity[i] : 0;
-        const denom = sigma[i] + added + capacity + floor;
-        const net = Math.abs(sigmaNew[i] - sigma[i]);
+      for (let i = firstControlled; i < n; i++) {
+        const denom = controlScale(i);
         if (denom > 0) {
-          const c = Math.min(net, Math.abs(sigmaNew[i] - sigma[i] - added + taken)) / denom;
-          if (c > change) change = c;
+          const added = infallOn ? (dtTry * source[i]) / grid.area[i] : 0;
+          const taken = removal !== null ? windLoss[i] / grid.area[i] : 0;
+          const c = Math.min(Math.abs(sigmaNew[i] - sigma[i]), Math.abs(sigmaNew[i] - sigma[i] - added + taken)) / denom;
+          if (c > change) {
+            change = c;
+            boundCell = i;
+          }
         }
       }
       if (change > REDO_FACTOR * setup.stepChange && retry < MAX_RETRIES) {
@@ -299,6 +366,7 @@ export function evolveDisk(setup: EvolveSetup, observer: EvolveObserver = {}): E
       // Accept: bookkeeping with the j_i the step used (M_* at its start).
       accepted = true;
       dtTaken = dtTry;
+      if (boundCell >= 0) boundCount[boundCell]++;
       const b = state.budget;
       const gm = Math.sqrt(G_CGS * state.mStar);
       b.massAccreted += flows.mdotInner * dtTry;
@@ -342,7 +410,7 @@ export function evolveDisk(setup: EvolveSetup, observer: EvolveObserver = {}): E
       const suggested = dtTry * Math.min(GROWTH_MAX, Math.max(SHRINK_MIN, setup.stepChange / Math.max(change, 1e-300)));
       dt = landing ? Math.max(dt, suggested) : suggested;
     }
-    if (!accepted) return fail('step_collapse', `no acceptable step after ${MAX_RETRIES} retries at t = ${t.toExponential(4)} s`);
+    if (!accepted) return fail('step_collapse', `no acceptable step after ${MAX_RETRIES} retries at t = ${t.toExponential(4)} s${boundAt()}`);
 
     if (lum !== undefined && irrPerLsun !== null) {
       const target = lum.accretion ? accretionLuminosity(state.mStar, state.mdotStar, lum.rStar, grid.edges[0]) : 0;
