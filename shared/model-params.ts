@@ -115,7 +115,12 @@ export const PARAMS = {
   }),
   alpha_dead: num({
     unit: '1', default: 1e-4, min: 0, max: 1,
-    description: 'Residual alpha in the dead (MRI-inactive) part of the column; must not exceed alpha_active.',
+    description:
+      'Residual alpha in the dead (MRI-inactive) part of the column; must not exceed alpha_active. With ' +
+      'active_layer=ionization, values below ~1e-5 let the dead zone pile up until it is heated to activation and ' +
+      'drains in outbursts, followed step by step (1e-6: the default infall model needs ~360 000 steps, raise ' +
+      'max_steps); at 0 only GI heats it, a ~1e6 g cm^-2 column switches on at ~1e5 K, outside the thermal model, ' +
+      'and the run ends with step_collapse (README, validity limits).',
   }),
   active_layer: choice({
     choices: ['uniform', 'fixed_column', 'ionization'],
@@ -197,7 +202,8 @@ export const PARAMS = {
     description:
       'active_layer=ionization: how hot gas becomes active. "threshold" = the whole column is active above t_mri_k ' +
       '(blended over +/- t_mri_halfwidth_k so alpha does not jump); "saha" = potassium and sodium ionized by the Saha ' +
-      'equation join the chemistry by charge neutrality; "none" = no thermal ionization.',
+      'equation join the chemistry by charge neutrality (slow: the whole hot column switches on at once, each step is ' +
+      'iterated; the default infall model takes ~15 000 steps and minutes); "none" = no thermal ionization.',
   }),
   t_mri_k: num({
     unit: 'K', default: 1000, min: 300, max: 3000,
