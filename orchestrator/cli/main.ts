@@ -4,7 +4,7 @@
  * code scripts can rely on (see EXIT CODES in --help).
  */
 import { Command, CommanderError } from 'commander';
-import { EXIT_BAD_INPUT, EXIT_FAILURE, EXIT_OK, describeError, exitCodeFor } from '../../shared/errors.js';
+import { DisksweepError, EXIT_BAD_INPUT, EXIT_FAILURE, EXIT_OK, describeError, exitCodeFor } from '../../shared/errors.js';
 import { parseModelParams } from '../../shared/model-params.js';
 import { MODEL_VERSION } from '../../shared/model-version.js';
 import { runValidatedModel } from '../../worker/model.js';
@@ -120,7 +120,19 @@ const crash = (error: unknown): void => {
 process.on('uncaughtException', crash);
 process.on('unhandledRejection', crash);
 
+// Every command ends by settling main()'s promise. Should a bug ever leave it pending with nothing left for the
+// event loop to wait for, Node would end the process with its own exit code 13 ("unsettled top-level await")
+// and no word of explanation: say what happened and exit 1 instead. Committed results are kept either way.
+let settled = false;
+process.on('beforeExit', () => {
+  if (settled) return;
+  crash(new DisksweepError('internal/unexpected', 'the command stopped before it finished: nothing was left to wait for (a bug; please report it)', {
+    details: ['results committed so far are kept: `disksweep resume --db FILE` goes on with a sweep'],
+  }));
+});
+
 const code = await main(process.argv.slice(2));
+settled = true;
 // A failed command exits now: a Redis client still retrying (or a library rejecting late while it shuts down)
 // must neither keep the process alive nor change its exit code. Output is written synchronously to pipes
 // and files on Linux and macOS, so nothing printed is lost.

@@ -64,11 +64,23 @@ export class ResultCommitter {
     private readonly store: SweepStore,
     /** Called after each transaction with its rows (progress, counts). */
     private readonly onCommitted: (rows: readonly StoredOutcome[]) => void = () => undefined,
+    /** Called once when a transaction fails, after the outcomes waiting for it are rejected. */
+    private readonly onFailed: (error: unknown) => void = () => undefined,
   ) {}
 
   /** Points of tracked chunks not yet written. */
   get inFlightPoints(): number {
     return this.points;
+  }
+
+  /** Tracked chunks with a point not yet written (updated in the transaction's turn, before `onCommitted`). */
+  get inFlightChunks(): number {
+    return this.tasks.size;
+  }
+
+  /** True once a transaction has failed: every later commit rejects. */
+  get failed(): boolean {
+    return this.failure !== null;
   }
 
   /** Keep a submitted chunk's tasks until its outcome is written. */
@@ -125,6 +137,7 @@ export class ResultCommitter {
         } catch (error) {
           this.failure = error;
           for (const entry of this.queue.splice(0)) entry.reject(error);
+          this.onFailed(error);
           return;
         }
         this.queue.splice(0, finished.length);

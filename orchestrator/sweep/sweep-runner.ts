@@ -70,6 +70,7 @@ export async function runSweep(input: SweepRunInput): Promise<SweepCounts & { in
   for (let i = 0; i < source.size; i++) already += hasResult[i];
   const counts: SweepCounts = { done: already, failed: 0, total: source.size, committed: 0 };
   let wake: (() => void) | null = null;
+  let storeFailed = false;
 
   const committer = new ResultCommitter(source, store, (rows) => {
     for (const r of rows) {
@@ -81,31 +82,36 @@ export async function runSweep(input: SweepRunInput): Promise<SweepCounts & { in
     }
     input.onProgress?.({ ...counts });
     wake?.();
+  }, () => {
+    storeFailed = true; // the transport sees the rejected commit too, and close() reports the error
+    wake?.();
   });
   transport.onOutcome((outcome) => committer.commit(outcome));
-  const full = (next: number): boolean =>
-    transport.pending() >= transport.window || (committer.inFlightPoints > 0 && committer.inFlightPoints + next > MAX_IN_FLIGHT_POINTS);
+
+  // The loop waits on the committer's counts, never on transport.pending(): they change in the same turn that
+  // calls wake(), so a wake is never lost. pending() lags: the embedded transport forgets a chunk only after
+  // its commit has resolved, a few microtasks after the wake. A transaction that committed every chunk in
+  // flight then left the loop asleep on a stale "window full", with nothing left to wake it; the event loop
+  // emptied and Node ended the process with exit code 13 (unsettled top-level await) halfway through a sweep.
+  const halted = (): boolean => signal?.aborted === true || storeFailed;
+  signal?.addEventListener('abort', () => wake?.(), { once: true });
+  const waitUntil = async (ready: () => boolean): Promise<void> => {
+    while (!ready() && !halted()) await new Promise<void>((resolve) => (wake = resolve));
+    wake = null;
+  };
+  const room = (next: number): boolean =>
+    committer.inFlightChunks < transport.window && (committer.inFlightPoints === 0 || committer.inFlightPoints + next <= MAX_IN_FLIGHT_POINTS);
 
   const chunks = chunkCount(source.size, input.chunkSize);
-  const stopped = (): boolean => signal?.aborted === true;
-  signal?.addEventListener('abort', () => wake?.(), { once: true });
-  let interrupted = false;
   let builtSinceYield = 0;
-  for (let k = 0; k < chunks; k++) {
-    if (stopped()) {
-      interrupted = true;
-      break;
-    }
+  let k = 0;
+  for (; k < chunks && !halted(); k++) {
     const chunk = buildChunk(input, k);
     if (chunk === null) continue;
-    while (full(chunk.points.length) && !stopped()) {
-      await new Promise<void>((resolve) => (wake = resolve));
-      wake = null;
+    if (!room(chunk.points.length)) {
+      await waitUntil(() => room(chunk.points.length));
       builtSinceYield = 0;
-    }
-    if (stopped()) {
-      interrupted = true;
-      break;
+      if (halted()) break;
     }
     committer.track(chunk);
     await transport.submit(chunk);
@@ -116,23 +122,12 @@ export async function runSweep(input: SweepRunInput): Promise<SweepCounts & { in
     }
   }
   // Everything is submitted: wait for the last outcomes, unless interrupted meanwhile (a Redis sweep's chunks
-  // may wait for workers for hours; Ctrl-C must not wait with them). The timer rechecks pending() after a
-  // transport has forgotten a committed chunk.
-  while (!interrupted && transport.pending() > 0) {
-    if (stopped()) {
-      interrupted = true;
-      break;
-    }
-    await new Promise<void>((resolve) => {
-      const recheck = setTimeout(resolve, 250);
-      wake = () => {
-        clearTimeout(recheck);
-        resolve();
-      };
-    });
-    wake = null;
-  }
+  // may wait for workers for hours; Ctrl-C must not wait with them). A graceful close then waits for the
+  // transport to forget the committed chunks.
+  await waitUntil(() => committer.inFlightChunks === 0);
+  // A Ctrl-C that came after every chunk was submitted and committed interrupted nothing.
+  const interrupted = signal?.aborted === true && (k < chunks || committer.inFlightChunks > 0);
   await transport.close(interrupted ? 'interrupted' : 'graceful');
-  // A Ctrl-C after the last submit that the embedded transport still saw through to the end interrupted nothing.
+  // Nor did one whose chunks in flight the embedded transport still saw through to the end.
   return { ...counts, interrupted: interrupted && counts.done < counts.total };
 }

@@ -250,7 +250,7 @@ export async function createRedisTransport(o: RedisTransportOptions): Promise<Re
   return {
     description: `redis (${target.description}), up to ${o.maxQueued} chunks queued`,
     interruptNote: 'committing the results in hand; queued chunks stay in Redis for workers and for resume',
-    // At least 2: the runner rechecks pending() as a commit resolves, before that chunk is forgotten.
+    // At least 2, so a chunk waits in the queue while the result of the one before it is committed.
     window: Math.max(2, o.maxQueued),
     async drain(fn) {
       await results.retryJobs({ state: 'failed' }).catch((e: unknown) => logError('redis', e));

@@ -12,6 +12,7 @@ import { runValidatedModel } from '../../../worker/model.js';
 import { parseSpecText } from '../../../orchestrator/spec/load-spec.js';
 import type { SweepStore } from '../../../orchestrator/store/index.js';
 import { planSweep, type SweepPlan } from '../../../orchestrator/sweep/sweep-plan.js';
+import { yieldToEventLoop } from '../../../orchestrator/sweep/result-committer.js';
 import { buildChunk, chunkCount, runSweep } from '../../../orchestrator/sweep/sweep-runner.js';
 import type { CommitOutcome, Transport } from '../../../orchestrator/transport/transport.js';
 import { resultsPerPoint, statusByIndex } from '../../support/sweep-db.js';
@@ -58,6 +59,65 @@ function scriptedTransport(deliver: (o: ChunkOutcomePayload, commit: CommitOutco
 }
 
 const indexesOf = (chunk: ChunkTaskPayload): number[] => chunk.points.map((p) => p.point_index);
+
+const answer = (chunk: ChunkTaskPayload): ChunkOutcomePayload => ({
+  sweep_id: chunk.sweep_id, chunk_index: chunk.chunk_index, worker_host: 'batch-host',
+  points: chunk.points.map((p) => ({ point_index: p.point_index, point_id: p.point_id, outcome: { kind: 'model' as const, result: sample } })),
+});
+
+interface Batching extends Transport {
+  /** Resolves if the transport holds nothing and no chunk came for two turns of the event loop while points are still unsubmitted. */
+  readonly stalled: Promise<'stalled'>;
+}
+
+/**
+ * Holds the chunks submitted in one turn of the event loop and answers them all in the next, so they share one
+ * transaction (what a loaded machine does to a pool whose fast chunks finish together). Like the embedded
+ * transport, it forgets a chunk only once its commit has resolved, and a failed commit stops it and is
+ * reported by close().
+ */
+function batchingTransport(total: number): Batching {
+  let commit: CommitOutcome | null = null;
+  let held: ChunkTaskPayload[] = [];
+  const inFlight = new Set<Promise<void>>();
+  let submittedPoints = 0;
+  let fatal: unknown = null;
+  let reportStall: (s: 'stalled') => void = () => undefined;
+  const stalled = new Promise<'stalled'>((resolve) => (reportStall = resolve));
+  const release = async (): Promise<void> => {
+    const batch = held;
+    held = [];
+    for (const chunk of batch) {
+      if (commit === null) throw new Error('onOutcome was not called before submit');
+      const p: Promise<void> = commit(answer(chunk)).catch((error: unknown) => void (fatal ??= error)).finally(() => inFlight.delete(p));
+      inFlight.add(p);
+    }
+    await Promise.all([...inFlight]);
+    const before = submittedPoints;
+    await yieldToEventLoop();
+    await yieldToEventLoop();
+    if (inFlight.size === 0 && held.length === 0 && submittedPoints === before && submittedPoints < total) reportStall('stalled');
+  };
+  return {
+    description: 'batching',
+    window: 4,
+    stalled,
+    onOutcome(fn) {
+      commit = fn;
+    },
+    async submit(chunk) {
+      if (fatal !== null) throw fatal;
+      if (held.length === 0) setImmediate(() => void release());
+      held.push(chunk);
+      submittedPoints += chunk.points.length;
+    },
+    pending: () => held.length + inFlight.size,
+    async close() {
+      await Promise.all([...inFlight]);
+      if (fatal !== null) throw fatal;
+    },
+  };
+}
 
 describe('buildChunk', () => {
   const none = new Uint8Array(plan.source.size);
@@ -141,6 +201,36 @@ describe('runSweep', () => {
     expect(status.get(6)?.status).toBe('infrastructure_error');
     expect(status.get(6)?.reason).toContain('point id mismatch');
     expect(status.get(7)?.status).toBe('ok');
+  });
+});
+
+describe('runSweep: every chunk in flight committed in one transaction', () => {
+  const input = (store: SweepStore, transport: Transport, onProgress?: (c: { committed: number }) => void) => ({
+    sweepId: plan.sweepId, chunkSize: CHUNK, source: plan.source, hasResult: store.pointIndexesWithResult(plan.sweepId), store, transport, onProgress,
+  });
+
+  it('goes on submitting (the window frees in the turn of the commit, not when the transport forgets the chunks)', async () => {
+    const store = newStore();
+    const transport = batchingTransport(plan.source.size);
+    const committedAt: number[] = [];
+    const r = await Promise.race([runSweep(input(store, transport, (c) => committedAt.push(c.committed))), transport.stalled]);
+    expect(r).toMatchObject({ done: 25, committed: 25, interrupted: false });
+    // The window of 4 chunks (16 points) filled and was committed in one transaction, then the last 3 chunks.
+    expect(committedAt).toEqual([16, 25]);
+    store.close();
+    expect(resultsPerPoint(tmp.file('runner.sqlite'))).toEqual({ points: 25, results: 25, maxPerPoint: 1 });
+  });
+
+  it('stops and reports a store that fails on that transaction instead of waiting for a commit that never comes', async () => {
+    const store = newStore();
+    const failing: SweepStore = Object.assign(Object.create(store) as SweepStore, {
+      writeResults: () => {
+        throw new Error('disk I/O error (injected)');
+      },
+    });
+    const transport = batchingTransport(plan.source.size);
+    await expect(Promise.race([runSweep(input(failing, transport)), transport.stalled])).rejects.toThrow('disk I/O error (injected)');
+    store.close();
   });
 });
 
