@@ -7,6 +7,10 @@
  * α_GI ≪ its normalisation) |dT_eq/dT| passes 1 and it falls into a period-2 cycle between a hot and a cool
  * temperature: ν then depended on the pass count and on last step's T, jumping ~10-fold for a 1 % change of
  * Σ, and the integrator crawled. The solve (numerics/root-finding.ts) brackets and uses Brent's method there.
+ * It needs T_eq not to increase with T, which holds for constant κ, GI and thermal-inertia relaxation; an opacity
+ * law κ(ρ, T) that rises with T can break it (opacity.ts). A cell whose solve does not converge within
+ * MAX_EVALUATIONS gets T = ν = NaN: every step from it is then non-finite, and the integrator's retries end the
+ * run with a failure status (step_collapse or non_finite, evolve.ts) instead of going on with a wrong temperature.
  */
 import { SIGMA_SB_CGS } from '../../../shared/constants.js';
 import type { ActiveColumn, ActiveLayerInput } from './active-layer.js';
@@ -181,6 +185,13 @@ export function computeTransportCoefficients(
       cell.quiescentTemperature = solveCellTemperature(physics, balance, trial, tStart);
     } else {
       cell.quiescentTemperature = tStart;
+    }
+    if (Number.isNaN(cell.quiescentTemperature)) {
+      // Unsolved (see the header): the provider is not asked about a NaN temperature, and the NaN goes on in ν.
+      if (sigmaActiveOut !== undefined) sigmaActiveOut[i] = NaN;
+      temperature[i] = NaN;
+      nu[i] = NaN;
+      continue;
     }
     const sigmaActive = Math.min(activeColumn(cell), s);
     if (sigmaActiveOut !== undefined) sigmaActiveOut[i] = sigmaActive;

@@ -1,21 +1,24 @@
 /**
  * The fixed-point solver of the midplane temperature, on maps whose fixed point is known in closed form, and
  * in the coefficient pass where plain iteration falls into a period-2 cycle (gravitational instability near
- * marginal stability).
+ * marginal stability); its evaluation cap, and what it does with maps outside its contract (increasing ones).
  */
 import { describe, expect, it } from 'vitest';
 import { G_CGS, M_SUN_CGS, AU_CGS } from '../../../../shared/constants.js';
 import { uniformActiveLayer } from '../../../../worker/kernels/disk/active-layer.js';
 import { alphaGravitationalInstability } from '../../../../worker/kernels/disk/gravitational-instability.js';
+import { evolveDisk } from '../../../../worker/kernels/disk/evolve.js';
 import { makeLogGrid } from '../../../../worker/kernels/disk/grid.js';
-import { constantOpacity } from '../../../../worker/kernels/disk/opacity.js';
+import { constantOpacity, type Opacity } from '../../../../worker/kernels/disk/opacity.js';
 import {
   SOUND_SPEED2_PER_K,
   solveMidplaneTemperature,
   viscousHeatingCoefficient,
 } from '../../../../worker/kernels/disk/thermal-structure.js';
 import { computeTransportCoefficients, type TransportPhysics } from '../../../../worker/kernels/disk/transport-coefficients.js';
-import { nonIncreasingFixedPoint } from '../../../../worker/kernels/numerics/root-finding.js';
+import { brentRoot, nonIncreasingFixedPoint } from '../../../../worker/kernels/numerics/root-finding.js';
+import { parseModelParams } from '../../../../shared/model-params.js';
+import { setupModel } from '../../../../worker/model-setup.js';
 
 describe('fixed point of a non-increasing map', () => {
   // g(t) = a − b t has the fixed point a / (1 + b) (algebra); plain iteration multiplies the error by −b.
@@ -44,6 +47,90 @@ describe('fixed point of a non-increasing map', () => {
     const root = nonIncreasingFixedPoint(g, 1, 1e-12, 60, g(1));
     expect(Math.abs(root - 10 / 1.5) / (10 / 1.5)).toBeLessThan(1e-10);
     expect(calls.filter((t) => t === 1)).toHaveLength(1);
+  });
+});
+
+describe('evaluation cap', () => {
+  it('brentRoot stops at its cap and says it did not converge', () => {
+    // x³ − 2 on [0, 2]: root 2^(1/3) (algebra); 3 evaluations cannot close the bracket to 1e-14.
+    let n = 0;
+    const f = (x: number): number => (n++, x ** 3 - 2);
+    const capped = brentRoot(f, 0, 2, -2, 6, 1e-14, 3);
+    expect(capped.converged).toBe(false);
+    expect(capped.evaluations).toBe(3);
+    expect(n).toBe(3);
+    n = 0;
+    const free = brentRoot(f, 0, 2, -2, 6, 1e-14);
+    expect(free.converged).toBe(true);
+    expect(free.evaluations).toBe(n);
+    expect(Math.abs(free.x - Math.cbrt(2))).toBeLessThan(1e-13);
+  });
+
+  // g(t) = 10 − b t, fixed point 10/(1 + b) (algebra); b = 3 hands over to Brent's method after two evaluations.
+  it.each([0.3, 3])('g(t) = 10 − %d t: never more evaluations than the cap; NaN, or the fixed point, within it', (b) => {
+    let converged = 0;
+    for (let cap = 1; cap <= 40; cap++) {
+      let n = 0;
+      const root = nonIncreasingFixedPoint((t) => (n++, 10 - b * t), 1, 1e-12, cap);
+      expect(n).toBeLessThanOrEqual(cap);
+      if (!Number.isNaN(root)) {
+        converged++;
+        expect(Math.abs(root - 10 / (1 + b)) / (10 / (1 + b))).toBeLessThan(1e-10);
+      }
+    }
+    // Both paths converge well within 40 (so the loop above saw both outcomes).
+    expect(converged).toBeGreaterThan(0);
+    expect(converged).toBeLessThan(40);
+  });
+
+  it('an evaluation g(t0) the caller passes in counts against the cap', () => {
+    let n = 0;
+    const g = (t: number): number => (n++, 10 - 0.3 * t);
+    const gt0 = g(1);
+    n = 0;
+    expect(nonIncreasingFixedPoint(g, 1, 1e-12, 1, gt0)).toBeNaN();
+    expect(n).toBe(0);
+  });
+});
+
+describe('maps that increase with t (outside the contract): no silent wrong answer', () => {
+  // g(t) = a + s t with s > 0: fixed point a/(1 − s) = 10 000 (algebra). Plain iteration creeps towards it by a
+  // factor s per evaluation (s = 0.95: 40 evaluations leave ~13 % of the gap) or runs away (s > 1).
+  it.each([
+    [0.95, 500],
+    [1.5, -5000],
+  ])('slope %d: NaN within the cap of 40, not a value short of the root or Infinity', (s, a) => {
+    let n = 0;
+    expect(nonIncreasingFixedPoint((t) => (n++, a + s * t), 1, 1e-10, 40)).toBeNaN();
+    expect(n).toBeLessThanOrEqual(40);
+  });
+
+  // κ = κ_1 (T / 1 K)^4 at fixed Σ: T_visc³ ∝ κ (thermal-structure.ts, T_visc⁴ = A T with A ∝ κ), so T_eq ∝ T^(4/3)
+  // where viscous heating dominates, and the fixed point T = T_eq(T) repels plain iteration.
+  const risingOpacity: Opacity = { name: 'rising', kappa: (_rho, t) => 1e-8 * t ** 4, isConstant: false };
+
+  it('a coefficient pass with an opacity law that breaks the contract gives NaN T and ν in the cells it cannot solve', () => {
+    const r = 1 * AU_CGS;
+    const omega = Math.sqrt((G_CGS * M_SUN_CGS) / r ** 3);
+    const grid = makeLogGrid(0.99 * r, 1.01 * r, 2);
+    const physics: TransportPhysics = {
+      alphaActive: 1e-2, alphaDead: 1e-2, activeColumn: uniformActiveLayer.create({}), opacity: risingOpacity, gi: null,
+      baseTemperature4: Float64Array.of(100 ** 4, 100 ** 4),
+    };
+    const fields = { nu: new Float64Array(2), temperature: Float64Array.of(300, 300) };
+    computeTransportCoefficients(grid, Float64Array.of(1e3, 1e3), Float64Array.of(omega, omega), physics, fields);
+    expect(fields.temperature[0]).toBeNaN();
+    expect(fields.nu[0]).toBeNaN();
+  });
+
+  it('a run with that law ends with a failure status, not with a thrown error or a wrong temperature', () => {
+    const base = setupModel(parseModelParams({ initial_state: 'disk', n_cells: 40, t_end_myr: 0.01, checkpoints_myr: [0.01] })).evolve;
+    const outcome = evolveDisk({ ...base, transport: { ...base.transport, opacity: risingOpacity } });
+    // Every try from the NaN ν is non-finite; the retries shrink the step until it collapses (measured: step_collapse
+    // at t = 0, 17 of 40 cells unsolved).
+    expect(['step_collapse', 'non_finite']).toContain(outcome.status);
+    expect(outcome.state.steps).toBe(0);
+    expect(Array.from(outcome.state.temperature).some(Number.isNaN)).toBe(true);
   });
 });
 
