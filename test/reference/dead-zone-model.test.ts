@@ -92,9 +92,9 @@ describe('a disk with a dead zone (ionization-based transport)', () => {
 
   it('the default infall model with ionization-based transport ends ok: the inner dead-zone edge is a steady front', { timeout: 180_000 }, () => {
     // With the thermal switch on the quiescent temperature (the default) a column cannot keep itself active by its
-    // own MRI heating, so the edge does not cycle (before: step_limit at 0.09 Myr). Measured: ok in 2688 steps,
-    // with a fixed irradiating luminosity. With L_acc in the irradiation (the default) the edge moves with the
-    // accretion luminosity during infall: ok in 12 421 steps (checked below).
+    // own MRI heating, so the edge does not cycle (before: step_limit at 0.09 Myr). Measured (model 0.7.0): ok in
+    // 2 992 steps with a fixed irradiating luminosity. With L_acc in the irradiation (the default) the edge moves
+    // with the accretion luminosity during infall: ok in 3 587 steps.
     const withAccretion = runModel({ active_layer: 'ionization' });
     expect(withAccretion.status).toBe('ok');
     expect(withAccretion.timing.steps).toBeLessThan(20_000);

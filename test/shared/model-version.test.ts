@@ -20,8 +20,8 @@ import { runModel } from '../../worker/model.js';
 const PINNED = {
   version: '0.7.0',
   tables: '4492ad446ef13dd24a037fd12260e6fbb077646837cf697a15becf5b8f3f5570',
-  disk_model: 'b0d9ef18529ff85955a4c3d49d6f85546ad8e727c9b98232916a4b07d62aa7bb',
-  infall_model: 'e6840cd6b3c11f419061845645ccb5af0a371d3c52601016ad79de954dffab85',
+  disk_model: '802b308b64606bff0c275f551242b7f1bcae76398270696a7f90e959e2e1c139',
+  infall_model: '74a488341f54d59c95a6d8f37f2e089826711109bd57017f8b5e91c0ed2cd340',
 };
 
 function fingerprints(): typeof PINNED {

@@ -116,6 +116,9 @@ export function createIonizationActiveColumn(o: IonizationLayerOptions): Ionizat
   let rateNow = NaN;
   const quiescent = o.activityTemperature === 'quiescent';
   const sahaQuiescent = quiescent && o.physics.alkalis !== null;
+  // Only the Saha ions of the kernel read the switch temperature; the threshold switch's weight is computed at
+  // every call, outside the cache, so without alkalis a change of it alone is no reason to re-run the kernel.
+  const kernelReadsSwitch = o.physics.alkalis !== null;
 
   const reset = (): void => {
     lastGeneration.fill(0);
@@ -157,7 +160,7 @@ export function createIonizationActiveColumn(o: IonizationLayerOptions): Ionizat
       lastGeneration[index] === generation &&
       (cell.derivativeProbe === true || (!changed(sigma, lastSigma[index], tol) &&
         !changed(cell.temperature, lastTemperature[index], tol) &&
-        !changed(switchTemperature, lastSwitchTemperature[index], tol)))
+        (!kernelReadsSwitch || !changed(switchTemperature, lastSwitchTemperature[index], tol))))
     ) {
       ion = wasFull[index] === 1 ? sigma : Math.min(ionActive[index], sigma);
     } else {

@@ -165,6 +165,22 @@ describe('which temperature the thermal switch sees (activity_temperature)', () 
     expect(p({ ...c, temperature: 3000, quiescentTemperature: 900, index: 2 })).toBe(kernel(900, 900));
   });
 
+  it('the cache re-runs the kernel for a new quiescent temperature alone only where the kernel reads it (Saha)', () => {
+    // Threshold switch: the kernel sees the midplane temperature only; the switch's weight is taken at every call.
+    const threshold = createIonizationActiveColumn(ionOptions({ ion_refresh_tol: 0 }));
+    const below = threshold(hot(900));
+    expect(threshold(hot(950))).toBe(below);
+    const blended = threshold(hot(1000)); // inside the blend (975–1025 K): the weight moved, the kernel did not run
+    expect(blended).toBeGreaterThan(below);
+    expect(blended).toBeLessThan(1000);
+    expect(threshold.stats.refreshes).toBe(1);
+    // Saha branch: the kernel reads it (below the 800 K from which the cache is bypassed altogether).
+    const saha = createIonizationActiveColumn(ionOptions({ thermal_ionization: 'saha', ion_refresh_tol: 0 }));
+    saha(hot(600));
+    saha(hot(650));
+    expect(saha.stats.refreshes).toBe(2);
+  });
+
   it('Saha branch: where alkali ions can matter, even a derivative probe re-runs the kernel (Σ_a follows T steeply)', () => {
     const p = createIonizationActiveColumn(ionOptions({ thermal_ionization: 'saha' }));
     p({ ...cell(0.3, 1000, 1400), quiescentTemperature: 1000 });
@@ -177,6 +193,8 @@ describe('which temperature the thermal switch sees (activity_temperature)', () 
 
   it('a column heated into activity by its own MRI is bistable with the midplane switch, single-valued with the quiescent one', () => {
     // 0.3 AU, Σ = 1000 g cm^-2, κ = 1: alpha_active heating alone gives ~1500 K, alpha_dead heating ~320 K.
+    // Two states with the midplane switch: the thermal S-curve bistability (Bell & Lin 1994, from memory); one
+    // with the quiescent switch: this model's design (ionization-active-layer.ts header), no source.
     const grid = makeLogGrid(0.299 * AU_CGS, 0.301 * AU_CGS, 2);
     const sigma = Float64Array.of(1000, 1000);
     const omega = grid.centers.map((r) => Math.sqrt(GM_SUN_CGS / r ** 3));
@@ -209,7 +227,10 @@ describe('Saha branch in the layered transport', () => {
   it('a column near the inner dead-zone edge settles to one state from a hot and a cold start', () => {
     // A column of the default infall model near 0.17 AU at ~0.09 Myr (Σ = 4790 g cm^-2, irradiation 918 K,
     // M_* = 0.148 M_sun): with the midplane temperature in the kernel's c_s, H and η it settled a quarter active
-    // (2530 K) from 2400 K and fully active (3990 K) from 4000 K: its own MRI heating kept it active.
+    // (2530 K) from 2400 K and fully active (3990 K) from 4000 K: its own MRI heating kept it active. That a
+    // column heated by its own MRI can hold a hot and a cold state is the thermal S-curve bistability (Bell & Lin
+    // 1994, from memory); that the quiescent temperature leaves one state is this model's design (the header of
+    // ionization-active-layer.ts), no source: the check is of the code against that design.
     const rAu = 0.1747;
     const grid = makeLogGrid(0.999 * rAu * AU_CGS, 1.001 * rAu * AU_CGS, 2);
     const sigma = Float64Array.of(4790, 4790);
