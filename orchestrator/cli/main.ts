@@ -38,7 +38,7 @@ Transport is MRI turbulence where the gas is ionized enough, with dead zones els
 
 Examples:
   disksweep model                                   the default infall model, 5 Myr
-  disksweep model --set active_layer=uniform        no dead zones (whole column active; ~10x fewer steps)
+  disksweep model --set active_layer=uniform        no dead zones (whole column active; ~7x fewer steps)
   disksweep model --set alpha_active=1e-3 --set t_end_myr=3
   disksweep model --set initial_state=disk --set m_disk_msun=0.1 --set r1_au=20
   disksweep model --set active_layer=fixed_column --set alpha_dead=1e-5 --json > run.json

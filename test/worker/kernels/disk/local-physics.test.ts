@@ -21,7 +21,9 @@ describe('midplane temperature T^4 = A T + C', () => {
     ['far above', 1e6], ['just above', 1.0001], ['at', 1], ['just below', 0.9999], ['below', 0.5], ['far below', 1e-6],
     ['0', 0], ['NaN', NaN], ['Infinity', Infinity], ['past overflow', 1e100],
   ])('a start guess %s the root gives the same root (to 1e-13) as the closed-form start', (_label, factor) => {
-    // A = 1e9, C = 1e4 (viscous heating dominates): the root is near A^{1/3} = 1000 K.
+    // A = 1e9, C = 1e4 (viscous heating dominates): the root is near A^{1/3} = 1000 K. T^4 − A T − C has one
+    // positive root (Descartes' rule of signs: one sign change), so every start must find the same one; the
+    // 1e-13 is the solver's stated convergence (thermal-structure.ts), no physics source.
     for (const [a, c] of [[1e9, 1e4], [1e3, 1e8], [0, 81e8], [27e6, 0]]) {
       const root = solveMidplaneTemperature(a, c);
       const t = solveMidplaneTemperature(a, c, factor * root);

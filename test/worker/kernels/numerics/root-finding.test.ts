@@ -194,8 +194,9 @@ describe('midplane temperature under gravitational instability near marginal sta
       const b = coefficientsAt(sigma * 1.001, 300).nu;
       worst = Math.max(worst, Math.abs(Math.log(b / a)));
     }
-    // ν ∝ α T with T ∝ Σ² under marginal GI regulation at most (Q ∝ c_s/Σ held near q_crit): a 10⁻³ step of Σ
-    // moves ln ν by well under 0.05; the period-2 cycle made it jump by ~1.
+    // ν ∝ α T with T ∝ Σ² under marginal GI regulation at most (Q = c_s Ω / (π G Σ) held near q_crit, Toomre 1964,
+    // so c_s ∝ Σ): a 10⁻³ step of Σ moves ln T by ~2e-3; the bound 0.05 leaves room for α_GI's own change (a margin,
+    // common practice, no source); the period-2 cycle made ln ν jump by ~1.
     expect(worst).toBeLessThan(0.05);
   });
 });
