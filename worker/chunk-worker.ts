@@ -16,10 +16,15 @@ async function loadModel(): Promise<ModelFunction> {
   return mod.runModel;
 }
 
-const model = await loadModel();
+// Loaded by the first task, not by a top-level await: the pool first tries to require() this file, and on Node
+// 20 a require() of a module with a top-level await can abort the whole process while a replacement thread
+// starts (seen: "v8::Module::IsGraphAsync ... must be used on an instantiated module", exit 134, after a model
+// killed its thread). A module without one loads either way.
+let model: Promise<ModelFunction> | null = null;
 const encoder = new TextEncoder();
 
 /** Piscina calls the default export for each task; the returned buffer is transferred, not copied. */
-export default function runChunkTask(payload: unknown): unknown {
-  return move(encoder.encode(JSON.stringify(runChunk(payload, model))));
+export default async function runChunkTask(payload: unknown): Promise<unknown> {
+  model ??= loadModel();
+  return move(encoder.encode(JSON.stringify(runChunk(payload, await model))));
 }
