@@ -26,7 +26,7 @@
  */
 import { SIGMA_SB_CGS } from '../../../shared/constants.js';
 import { GAMMA_ADIABATIC } from './gravitational-instability.js';
-import { SOUND_SPEED2_PER_K } from './thermal-structure.js';
+import { SOUND_SPEED2_PER_K, solveMidplaneTemperature } from './thermal-structure.js';
 
 /** Specific heat at constant volume, erg g^-1 K^-1: c_v = (k_B/μ m_H)/(γ − 1). */
 export const SPECIFIC_HEAT_CGS = SOUND_SPEED2_PER_K / (GAMMA_ADIABATIC - 1);
@@ -42,6 +42,27 @@ export function coolingTime(kappa: number, sigma: number, temperature: number): 
 }
 
 /**
+ * Newton descent onto the positive root of p t⁴ + (b − e) t − s − u from a start t to the right of it (where the
+ * quartic is ≥ 0): the convex quartic then decreases monotonically onto the root. The terms are passed apart so
+ * that the unscaled form evaluates exactly as it always has (its outputs are pinned bit for bit).
+ */
+function descendOntoRoot(p: number, b: number, e: number, s: number, u: number, start: number): number {
+  let t = start;
+  for (let k = 0; k < 60; k++) {
+    const t3 = t * t * t;
+    const g = p * t3 * t + (b - e) * t - s - u;
+    const step = g / (4 * p * t3 + b - e);
+    t -= step;
+    if (!(step > 1e-13 * t)) break;
+  }
+  return t;
+}
+
+// Above this size of the h-scaled terms the equation is solved divided by h (numerical choice, common practice,
+// no source): h T⁴ would overflow near 1.8e308 (a nearly empty cell has k ∝ 1/Σ², so h can be ~1e300).
+const SCALED_TERMS_MAX = 1e300;
+
+/**
  * Midplane temperature after one backward-Euler step of the energy equation: h = k dt, T_old the temperature
  * at the start of the step, tEq the equilibrium root of T⁴ = A T + C (solveMidplaneTemperature). Non-finite
  * or negative-free inputs with h = Infinity (or no previous temperature) give tEq.
@@ -49,13 +70,14 @@ export function coolingTime(kappa: number, sigma: number, temperature: number): 
 export function relaxTemperature(a: number, c: number, tOld: number, h: number, tEq: number): number {
   if (!(h < Infinity) || !(tOld > 0)) return tEq;
   if (!(h > 0)) return tOld;
-  let t = Math.max(tOld, tEq);
-  for (let k = 0; k < 60; k++) {
-    const t3 = t * t * t;
-    const g = h * t3 * t + (1 - h * a) * t - tOld - h * c;
-    const step = g / (4 * h * t3 + 1 - h * a);
-    t -= step;
-    if (!(step > 1e-13 * t)) break;
-  }
-  return t;
+  const m = Math.max(tOld, tEq);
+  // Every h-scaled term of g and g' along the descent (t ≤ m; A ≤ T_eq³ and C ≤ T_eq⁴ at the equilibrium) is at
+  // most 4 h m³ max(m, 1): below the bound, g as written.
+  if (4 * h * m * m * m * Math.max(m, 1) < SCALED_TERMS_MAX) return descendOntoRoot(h, 1, h * a, tOld, h * c, m);
+  // g/h = T⁴ + (1/h − A) T − T_old/h − C, the same root. Its start: the smaller of m and the root u of
+  // u⁴ = A u + C + T_old/h, where g(u) = u > 0 (both lie right of the root); from m alone the descent, which
+  // shrinks t by about 3/4 per step while T⁴ dominates, would not reach a root of ~(T_old/h)^(1/4) in 60 steps.
+  const hInv = 1 / h;
+  const start = Math.min(m, solveMidplaneTemperature(a, c + tOld * hInv));
+  return descendOntoRoot(1, hInv, a, tOld * hInv, c, start);
 }

@@ -64,6 +64,22 @@ describe('backward-Euler relaxation', () => {
     }
   });
 
+  it('a finite but enormous h (a nearly empty cell: k ∝ 1/Σ²) gives the root, not NaN from h T⁴ overflowing', () => {
+    // Numerical property of the solver (common practice, no source): h T_old⁴ ~ 1e309 overflows in g as written.
+    const [aTiny, hHuge] = [4.06e-304, 1.01e300];
+    const eq = solveMidplaneTemperature(aTiny, 0);
+    for (const tOld of [100, 150, 200]) {
+      const t = relaxTemperature(aTiny, 0, tOld, hHuge, eq);
+      expect(Number.isFinite(t)).toBe(true);
+      expect(t).toBeGreaterThan(eq);
+      expect(t).toBeLessThan(tOld);
+      // The step's equation divided by h: T⁴ + (1/h − A) T − T_old/h − C = 0; its terms are ~T_old/h.
+      expect(Math.abs(t ** 4 + (1 / hHuge - aTiny) * t - tOld / hHuge) / (tOld / hHuge)).toBeLessThan(1e-12);
+    }
+    // An ordinary cell with a huge h: the old temperature is forgotten, T is the equilibrium (to round-off).
+    expect(Math.abs(relaxTemperature(a, c, 300, 1e300, tEq) / tEq - 1)).toBeLessThan(1e-15);
+  });
+
   it('pure radiative cooling follows T(t) = T₀ (1 + 3 k T₀³ t)^(-1/3) with first-order error', () => {
     // dT/dt = −k T⁴ (A = C = 0) has this closed form; backward Euler converges to it at order 1.
     const k = coolingRateCoefficient(1, 1000);
