@@ -431,7 +431,10 @@ export const PARAMS = {
   }),
   picard_iterations: num({
     unit: '1', default: 0, min: 0, max: 20, integer: true,
-    description: 'Extra Newton iterations per step: nu and its flux linearisation recomputed about the latest Sigma (0 = one linearised solve per step).',
+    description:
+      'Extra Newton iterations per step: nu and its flux linearisation recomputed about the latest Sigma (0 = one ' +
+      'linearised solve per step). Any value above 0 replaces the secant iterations of the Saha branch ' +
+      '(thermal_ionization=saha), which then runs unchecked Newton iterations instead.',
   }),
   step_change: num({
     unit: '1', default: 0.05, min: 1e-4, max: 1,

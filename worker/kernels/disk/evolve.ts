@@ -40,7 +40,7 @@ import {
 import type { TransportPhysics } from './transport-coefficients.js';
 import { computeTransportCoefficients } from './transport-coefficients.js';
 import type { EdgeCondition } from './viscous-transport.js';
-import { linearizationResidual, linearizeFlux, perturbSigma, secantUpdate } from './flux-linearization.js';
+import { linearizationResidual, linearizeFlux, perturbSigma, probeViscosity, secantUpdate } from './flux-linearization.js';
 import { makeTransportWorkspace, viscousStep } from './viscous-transport.js';
 import { advanceCavity, findInnerCavity, type InnerCavity } from './winds/inner-cavity.js';
 import { cavityCheckRadius, computeWindRates, fillSinkDt, makeWindWorkspace, windRemoval, type WindSetup } from './winds/wind-sink.js';
@@ -244,11 +244,7 @@ export function evolveDisk(setup: EvolveSetup, observer: EvolveObserver = {}): E
         f === undefined ? null : theta * f(t + dtTry) + (1 - theta) * f(t);
       if (lin !== null && retry === 0) {
         perturbSigma(sigma, lin.sigma);
-        lin.temperature.set(fields.temperature);
-        // Time since the state 0: with thermal inertia the probe holds T where the state pass left it (T lags Σ;
-        // an equilibrium T here would differ from the state's by far more than ε changes it, and the quotient
-        // would be that difference over ε); without inertia the argument is unused.
-        computeTransportCoefficients(grid, lin.sigma, omega, physics, { nu: lin.nu, temperature: lin.temperature, derivativeProbe: true }, t, 0);
+        probeViscosity(grid, lin.sigma, omega, physics, fields.temperature, t, lin.nu, lin.temperature);
         linearizeFlux(sigma, grid.sqrtCenters, fields.nu, lin.nu, lin.nuImplicit, lin.offset);
       }
       // One record per try, its wind sink filled in after the predictor: a spread copy per try cost ~1.5 % of a model
@@ -264,6 +260,18 @@ export function evolveDisk(setup: EvolveSetup, observer: EvolveObserver = {}): E
         input.sinkDt = fillSinkDt(winds, grid, sigmaNew, dtTry, windWs);
       }
       let flows = viscousStep(input, ws, sigmaNew);
+      // What is wrong with the try's Σ' and edge flows, if anything; such a try is redone (below) and never handed
+      // to a coefficient pass, whose kernels need a finite Σ ≥ 0 (the Saha kernel's root bracket fails on NaN).
+      const invalidity = (): 'non_finite' | 'negative' | null => {
+        if (!Number.isFinite(flows.mdotInner) || !Number.isFinite(flows.mdotOuter)) return 'non_finite';
+        let negative = false;
+        for (let i = 0; i < n; i++) {
+          const s = sigmaNew[i];
+          if (!Number.isFinite(s)) return 'non_finite';
+          if (s < 0) negative = true;
+        }
+        return negative ? 'negative' : null;
+      };
       const floor = 1e-6 * sigmaMaxOld;
       // Σ scale of cell i for the change measure, or 0 where the step control skips the cell (see the header).
       const controlScale = (i: number): number => {
@@ -281,16 +289,18 @@ export function evolveDisk(setup: EvolveSetup, observer: EvolveObserver = {}): E
         const edgeZeroTorque = { inner: edges?.inner === undefined, outer: edges?.outer === undefined };
         const step = { sigmaNew, nuNew: secant.nuNew, nuImplicit: secant.nuImplicit, offset: secant.offset };
         for (let k = 0; ; k++) {
-          // ν(Σ') of the same function the linearisation differentiated: start-of-step physics, probe mode.
-          secant.temperature.set(fields.temperature);
-          computeTransportCoefficients(grid, sigmaNew, omega, physics, { nu: secant.nuNew, temperature: secant.temperature, derivativeProbe: true }, t);
+          if (invalidity() !== null) break;
+          // ν(Σ') of the same function the linearisation differentiated (start-of-step physics, T held).
+          probeViscosity(grid, sigmaNew, omega, physics, fields.temperature, t, secant.nuNew, secant.temperature);
           linearizationResidual(grid, step, theta * dtTry, edgeZeroTorque, secant.residual);
           let worst = 0;
           for (let i = 0; i < n; i++) {
             const scale = controlScale(i);
             const r = scale > 0 ? Math.abs(secant.residual[i]) / scale : 0;
-            if (r > worst) {
-              worst = r;
+            // A residual that could not be evaluated (NaN) ranks above every number: never converged.
+            const rank = Number.isNaN(r) ? Infinity : r;
+            if (rank > worst) {
+              worst = rank;
               boundCell = i;
             }
           }
@@ -311,28 +321,21 @@ export function evolveDisk(setup: EvolveSetup, observer: EvolveObserver = {}): E
         // would drop the linearisation and, across a steep switch, oscillate between iterates).
         lin.iterate.set(sigmaNew);
         perturbSigma(lin.iterate, lin.sigma);
-        lin.temperature.set(tempScratch);
-        computeTransportCoefficients(grid, lin.sigma, omega, physics, { nu: lin.nu, temperature: lin.temperature, derivativeProbe: true }, t + dtTry, 0);
+        probeViscosity(grid, lin.sigma, omega, physics, tempScratch, t + dtTry, lin.nu, lin.temperature);
         linearizeFlux(lin.iterate, grid.sqrtCenters, nuNew, lin.nu, lin.iterateNuImplicit, lin.iterateOffset);
         flows = viscousStep({ ...input, nuImplicit: lin.iterateNuImplicit, implicitOffset: lin.iterateOffset }, ws, sigmaNew);
       }
       const removal = winds !== null && windWs !== null ? windRemoval(winds, grid, sigmaNew, windWs) : null;
 
-      // Change measure and validity of the new state.
-      let finite = true;
-      let negative = false;
-      for (let i = 0; i < n; i++) {
-        const s = sigmaNew[i];
-        if (!Number.isFinite(s)) finite = false;
-        if (s < 0) negative = true;
-      }
-      if (!finite || !Number.isFinite(flows.mdotInner) || !Number.isFinite(flows.mdotOuter)) {
+      // Validity of the new state, then its change measure.
+      const invalid = invalidity();
+      if (invalid === 'non_finite') {
         if (retry === MAX_RETRIES) return fail('non_finite', `non-finite surface density at t = ${t.toExponential(4)} s`);
         dt = dtTry * SHRINK_MIN;
         state.rejectedSteps++;
         continue;
       }
-      if (negative) {
+      if (invalid === 'negative') {
         // (A θ < 1 step can overshoot below zero; the wind sink, being implicit, cannot.)
         dt = dtTry * 0.5;
         state.rejectedSteps++;

@@ -23,9 +23,30 @@
  */
 
 import type { DiskGrid } from './grid.js';
+import { computeTransportCoefficients, type TransportPhysics } from './transport-coefficients.js';
 
 /** Relative perturbation of Σ for the difference quotient. */
 export const FLUX_PERTURBATION = 1e-4;
+
+/**
+ * ν(Σ) as the linearisation differentiates it and its residual evaluates it: the coefficient pass in probe mode
+ * at `time`, with thermal inertia the temperature held at `heldTemperature` (dt = 0: T lags Σ within a step, and
+ * an equilibrium T would differ from the held one by far more than a change of Σ moves it); without inertia
+ * `heldTemperature` only seeds the pass. `temperature` is scratch.
+ */
+export function probeViscosity(
+  grid: DiskGrid,
+  sigma: Float64Array,
+  omega: Float64Array,
+  physics: TransportPhysics,
+  heldTemperature: Float64Array,
+  time: number,
+  nu: Float64Array,
+  temperature: Float64Array,
+): void {
+  temperature.set(heldTemperature);
+  computeTransportCoefficients(grid, sigma, omega, physics, { nu, temperature, derivativeProbe: true }, time, 0);
+}
 
 /**
  * From ν at Σ and ν at Σ (1 + ε), fill `nuImplicit` with D = max((ν₊(1 + ε) − ν)/ε, ν) and `offset` with

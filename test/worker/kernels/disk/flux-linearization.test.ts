@@ -10,10 +10,14 @@ import {
   linearizationResidual,
   linearizeFlux,
   perturbSigma,
+  probeViscosity,
   secantUpdate,
 } from '../../../../worker/kernels/disk/flux-linearization.js';
 import { evolveDisk } from '../../../../worker/kernels/disk/evolve.js';
-import type { ActiveLayerInput } from '../../../../worker/kernels/disk/active-layer.js';
+import { uniformActiveLayer, type ActiveLayerInput } from '../../../../worker/kernels/disk/active-layer.js';
+import { constantOpacity } from '../../../../worker/kernels/disk/opacity.js';
+import { computeTransportCoefficients } from '../../../../worker/kernels/disk/transport-coefficients.js';
+import { AU_CGS, GM_SUN_CGS } from '../../../../shared/constants.js';
 import { makeLogGrid, type DiskGrid } from '../../../../worker/kernels/disk/grid.js';
 import { parseModelParams } from '../../../../shared/model-params.js';
 import { setupModel } from '../../../../worker/model-setup.js';
@@ -229,6 +233,46 @@ describe('nonlinear residual and secant iterations', () => {
   });
 });
 
+describe('the residual evaluates the function the linearisation differentiated', () => {
+  it('with thermal inertia and Σ\' = Σ the residual is 0 (T held, as in the probe); an equilibrium T would not be', () => {
+    // Numerical identity of the scheme (common practice, no source): at Σ' = Σ the linearised flux is the flux
+    // of ν(Σ) itself, so the residual of the function that was linearised vanishes.
+    const g = makeLogGrid(0.5 * AU_CGS, 2 * AU_CGS, 24);
+    const sigma = Float64Array.from(g.centers, (r) => 2000 * Math.exp(-(((Math.log(r / AU_CGS)) / 0.3) ** 2)) + 50);
+    const omega = g.centers.map((r) => Math.sqrt(GM_SUN_CGS / r ** 3));
+    const physics = {
+      alphaActive: 0.01, alphaDead: 0.01, activeColumn: uniformActiveLayer.create({}), opacity: constantOpacity(1), gi: null,
+      baseTemperature4: new Float64Array(g.n).fill(100 ** 4), thermalInertia: true,
+    };
+    // A state whose temperature lags its equilibrium: 300 K relaxed over 1e9 s (t_cool ~ 4e10 s at Σ = 2000).
+    const fields = { nu: new Float64Array(g.n), temperature: new Float64Array(g.n).fill(300) };
+    computeTransportCoefficients(g, sigma, omega, physics, fields, 0, 1e9);
+    const scratch = new Float64Array(g.n);
+    const nuUp = new Float64Array(g.n);
+    const up = new Float64Array(g.n);
+    perturbSigma(sigma, up);
+    probeViscosity(g, up, omega, physics, fields.temperature, 0, nuUp, scratch);
+    const nuImplicit = new Float64Array(g.n);
+    const offset = new Float64Array(g.n);
+    linearizeFlux(sigma, g.sqrtCenters, fields.nu, nuUp, nuImplicit, offset);
+    const dt = 1e9;
+    const worst = (nuNew: Float64Array): number => {
+      const out = new Float64Array(g.n);
+      linearizationResidual(g, { sigmaNew: sigma, nuNew, nuImplicit, offset }, dt, { inner: true, outer: true }, out);
+      return Math.max(...out.map((r, i) => Math.abs(r) / sigma[i]));
+    };
+    const nuHeld = new Float64Array(g.n);
+    probeViscosity(g, sigma, omega, physics, fields.temperature, 0, nuHeld, scratch);
+    expect(worst(nuHeld)).toBeLessThan(1e-14);
+    // The equilibrium temperature (the coefficient pass without a dt) gives another ν at the same Σ: a residual
+    // that no step could remove, here above the redo threshold REDO_FACTOR × step_change = 0.2 of evolve.ts.
+    const nuEq = new Float64Array(g.n);
+    scratch.set(fields.temperature);
+    computeTransportCoefficients(g, sigma, omega, physics, { nu: nuEq, temperature: scratch, derivativeProbe: true }, 0);
+    expect(worst(nuEq)).toBeGreaterThan(0.2);
+  });
+});
+
 describe('secant iterations in the integrator (EvolveSetup.secantIterations)', () => {
   it('a disk whose active fraction has a square-root cusp: as accurate, in far fewer steps', () => {
     // Irradiation-heated disk (κ = 0, no GI: T does not depend on Σ), Σ_a/Σ = 1 − √((Σ_c − Σ)/Σ_c) below
@@ -262,5 +306,37 @@ describe('secant iterations in the integrator (EvolveSetup.secantIterations)', (
     expect(secant.state.steps).toBeLessThan(oneIterate.state.steps / 4);
     expect(l1(secant.state.sigma)).toBeLessThan(5e-3);
     expect(l1(oneIterate.state.sigma)).toBeLessThan(5e-3);
+  });
+
+  // The integrator's handling of tries it cannot check (numerical behaviour, common practice, no source).
+  const cuspSetup = () => {
+    const params = parseModelParams({
+      initial_state: 'disk', m_disk_msun: 0.05, r1_au: 10, kappa_cm2_g: 0, gi_transport: 'off', alpha_dead: 1e-5,
+      n_cells: 100, t_end_myr: 0.02, checkpoints_myr: [0.02], max_steps: 200000,
+    });
+    return setupModel(params).evolve;
+  };
+  const cusp = (c: ActiveLayerInput): number => (c.sigma >= 300 ? c.sigma : c.sigma * (1 - Math.sqrt((300 - c.sigma) / 300)));
+
+  it('a try whose Σ\' is negative is redone before its residual is evaluated (the kernels need Σ ≥ 0)', () => {
+    const base = cuspSetup();
+    // Like the Saha kernel's root bracket, this provider cannot take a negative or non-finite column.
+    const strict = (c: ActiveLayerInput): number => {
+      if (!(c.sigma >= 0)) throw new Error(`column ${c.sigma}`);
+      return cusp(c);
+    };
+    // Crank-Nicolson with a first step far beyond the cells' diffusion time overshoots below zero.
+    const run = evolveDisk({ ...base, theta: 0.5, initialDt: 1e11, secantIterations: 6, transport: { ...base.transport, activeColumn: strict } });
+    expect(run.status).toBe('ok');
+    expect(run.state.rejectedSteps).toBeGreaterThan(0);
+  });
+
+  it('a residual that cannot be evaluated (NaN) never counts as converged', () => {
+    const base = cuspSetup();
+    // ν at any probed Σ is NaN: no try can be checked, so none may be accepted.
+    const unknowable = (c: ActiveLayerInput): number => (c.derivativeProbe === true ? NaN : cusp(c));
+    const run = evolveDisk({ ...base, secantIterations: 2, transport: { ...base.transport, activeColumn: unknowable } });
+    expect(run.status).toBe('step_collapse');
+    expect(run.state.steps).toBe(0);
   });
 });
