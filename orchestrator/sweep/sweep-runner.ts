@@ -70,7 +70,6 @@ export async function runSweep(input: SweepRunInput): Promise<SweepCounts & { in
   for (let i = 0; i < source.size; i++) already += hasResult[i];
   const counts: SweepCounts = { done: already, failed: 0, total: source.size, committed: 0 };
   let wake: (() => void) | null = null;
-  let storeFailed = false;
 
   const committer = new ResultCommitter(source, store, (rows) => {
     for (const r of rows) {
@@ -82,10 +81,7 @@ export async function runSweep(input: SweepRunInput): Promise<SweepCounts & { in
     }
     input.onProgress?.({ ...counts });
     wake?.();
-  }, () => {
-    storeFailed = true; // the transport sees the rejected commit too, and close() reports the error
-    wake?.();
-  });
+  }, () => wake?.()); // a failed store halts the loop (below); the transport sees the rejected commit too, and close() reports it
   transport.onOutcome((outcome) => committer.commit(outcome));
 
   // The loop waits on the committer's counts, never on transport.pending(): they change in the same turn that
@@ -93,7 +89,7 @@ export async function runSweep(input: SweepRunInput): Promise<SweepCounts & { in
   // its commit has resolved, a few microtasks after the wake. A transaction that committed every chunk in
   // flight then left the loop asleep on a stale "window full", with nothing left to wake it; the event loop
   // emptied and Node ended the process with exit code 13 (unsettled top-level await) halfway through a sweep.
-  const halted = (): boolean => signal?.aborted === true || storeFailed;
+  const halted = (): boolean => signal?.aborted === true || committer.failed;
   signal?.addEventListener('abort', () => wake?.(), { once: true });
   const waitUntil = async (ready: () => boolean): Promise<void> => {
     while (!ready() && !halted()) await new Promise<void>((resolve) => (wake = resolve));
