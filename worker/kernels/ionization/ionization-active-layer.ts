@@ -98,7 +98,6 @@ export function createIonizationActiveColumn(o: IonizationLayerOptions): Ionizat
   const n = o.nCells;
   const lastSigma = new Float64Array(n);
   const lastTemperature = new Float64Array(n);
-  const lastSwitchTemperature = new Float64Array(n);
   const lastGeneration = new Int32Array(n);
   const ionActive = new Float64Array(n);
   const wasFull = new Uint8Array(n);
@@ -116,9 +115,6 @@ export function createIonizationActiveColumn(o: IonizationLayerOptions): Ionizat
   let rateNow = NaN;
   const quiescent = o.activityTemperature === 'quiescent';
   const sahaQuiescent = quiescent && o.physics.alkalis !== null;
-  // Only the Saha ions of the kernel read the switch temperature; the threshold switch's weight is computed at
-  // every call, outside the cache, so without alkalis a change of it alone is no reason to re-run the kernel.
-  const kernelReadsSwitch = o.physics.alkalis !== null;
 
   const reset = (): void => {
     lastGeneration.fill(0);
@@ -132,6 +128,10 @@ export function createIonizationActiveColumn(o: IonizationLayerOptions): Ionizat
   const column = (cell: ActiveLayerInput): number => {
     const { sigma, radius, omega, time, index } = cell;
     const switchTemperature = quiescent ? (cell.quiescentTemperature ?? cell.temperature) : cell.temperature;
+    // The one temperature the kernel reads, and so the one its cached answer depends on: the quiescent one in the
+    // Saha branch (see the header), else the midplane one. The threshold switch's weight is taken at every call,
+    // outside the cache, so a change of the switch temperature alone re-runs nothing there.
+    const kernelTemperature = sahaQuiescent ? switchTemperature : cell.temperature;
     stats.calls++;
     const gm = omega * omega * radius * radius * radius;
     if (time !== rateTime) {
@@ -158,13 +158,11 @@ export function createIonizationActiveColumn(o: IonizationLayerOptions): Ionizat
     if (
       !steep &&
       lastGeneration[index] === generation &&
-      (cell.derivativeProbe === true || (!changed(sigma, lastSigma[index], tol) &&
-        !changed(cell.temperature, lastTemperature[index], tol) &&
-        (!kernelReadsSwitch || !changed(switchTemperature, lastSwitchTemperature[index], tol))))
+      (cell.derivativeProbe === true || (!changed(sigma, lastSigma[index], tol) && !changed(kernelTemperature, lastTemperature[index], tol)))
     ) {
       ion = wasFull[index] === 1 ? sigma : Math.min(ionActive[index], sigma);
     } else {
-      const state = { sigma, temperature: sahaQuiescent ? switchTemperature : cell.temperature, thermalIonizationTemperature: switchTemperature, radius, omega };
+      const state = { sigma, temperature: kernelTemperature, thermalIonizationTemperature: switchTemperature, radius, omega };
       const ctx = prepareColumn(state, sources, o.physics);
       // The cell's last boundary, if it had one, brackets the new one in two evaluations most of the time.
       const hint = lastGeneration[index] > 0 && wasFull[index] === 0 && ionActive[index] > 0 ? 0.5 * ionActive[index] : NaN;
@@ -173,8 +171,7 @@ export function createIonizationActiveColumn(o: IonizationLayerOptions): Ionizat
       stats.evaluations += r.evaluations;
       lastGeneration[index] = generation;
       lastSigma[index] = sigma;
-      lastTemperature[index] = cell.temperature;
-      lastSwitchTemperature[index] = switchTemperature;
+      lastTemperature[index] = kernelTemperature;
       ionActive[index] = r.sigmaActive;
       wasFull[index] = r.midplaneDead ? 0 : 1;
       ion = r.sigmaActive;
