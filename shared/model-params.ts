@@ -429,7 +429,7 @@ export const PARAMS = {
       'in time, but it does not damp the stiff inner cells: runs with infall need many more steps; use it for ' +
       'convergence studies, or a value slightly above 0.5).',
   }),
-  picard_iterations: num({
+  newton_iterations: num({
     unit: '1', default: 0, min: 0, max: 20, integer: true,
     description:
       'Extra Newton iterations per step: nu and its flux linearisation recomputed about the latest Sigma (0 = one ' +

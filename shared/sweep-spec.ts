@@ -19,7 +19,7 @@ import { PARAMS, allowedText, suggestionFor, type ParamDescriptor, type ParamNam
 
 /** Parameters that belong in `model:` (numerics and output settings) rather than `fixed:` (physics). */
 export const MODEL_SETTING_NAMES = [
-  'n_cells', 'r_in_au', 'r_out_au', 't_end_myr', 'checkpoints_myr', 'theta', 'picard_iterations',
+  'n_cells', 'r_in_au', 'r_out_au', 't_end_myr', 'checkpoints_myr', 'theta', 'newton_iterations',
   'step_change', 'max_steps', 'n_series',
 ] as const satisfies readonly ParamName[];
 

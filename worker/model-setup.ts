@@ -172,7 +172,7 @@ export function setupModel(p: ModelParams): ModelSetup {
       thermalInertia: p.thermal_inertia === 'on',
     },
     theta: p.theta,
-    picardIterations: p.picard_iterations,
+    newtonIterations: p.newton_iterations,
     stepChange: p.step_change,
     linearizeFlux: true,
     // The Saha branch's column switches on through its midplane at a square-root cusp of Σ_a(Σ), where one

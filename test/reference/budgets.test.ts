@@ -46,10 +46,10 @@ const CASES: readonly BudgetCase[] = [
     name: 'infall start, growing star, theta = 1/2',
     params: { initial_state: 'infall', star_mass: 'growing', theta: 0.5, t_end_myr: 0.2, checkpoints_myr: [0.1, 0.2] },
   },
-  { name: 'infall start, growing star, 2 Picard iterations', params: { initial_state: 'infall', star_mass: 'growing', picard_iterations: 2 } },
+  { name: 'infall start, growing star, 2 Newton iterations', params: { initial_state: 'infall', star_mass: 'growing', newton_iterations: 2 } },
   {
-    name: 'disk start, fixed star, theta = 1/2 and 2 Picard iterations',
-    params: { initial_state: 'disk', star_mass: 'fixed', theta: 0.5, picard_iterations: 2 },
+    name: 'disk start, fixed star, theta = 1/2 and 2 Newton iterations',
+    params: { initial_state: 'disk', star_mass: 'fixed', theta: 0.5, newton_iterations: 2 },
   },
   // Transport from the ionization kernel (a dead zone; irradiation-heated so the thermal switch stays quiet).
   { name: 'disk start, growing star, ionization dead zone', params: { initial_state: 'disk', active_layer: 'ionization', kappa_cm2_g: 0 } },

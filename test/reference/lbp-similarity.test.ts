@@ -113,7 +113,7 @@ function runSimilarity(theta: number): { status: string; samples: Sample[] } {
         baseTemperature4: grid.centers.map((r) => irradiationTemperature4(r, L_SUN_CGS)),
       },
       theta,
-      picardIterations: 0,
+      newtonIterations: 0,
       stepChange: 0.01,
       maxSteps: 100_000,
       tEnd: (CHECK_T[CHECK_T.length - 1] - 1) * T_S,

@@ -19,7 +19,7 @@ import { runModel } from '../../worker/model.js';
 
 const PINNED = {
   version: '0.7.0',
-  tables: '4492ad446ef13dd24a037fd12260e6fbb077646837cf697a15becf5b8f3f5570',
+  tables: 'b55542f2c4ac3730b9c20461baa0152abd3f960b45eb346a5db10548380a4d8a',
   disk_model: '802b308b64606bff0c275f551242b7f1bcae76398270696a7f90e959e2e1c139',
   infall_model: '74a488341f54d59c95a6d8f37f2e089826711109bd57017f8b5e91c0ed2cd340',
 };

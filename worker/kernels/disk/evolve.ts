@@ -80,12 +80,13 @@ export interface EvolveSetup {
   readonly starGrows: boolean;
   readonly transport: TransportPhysics;
   readonly theta: number;
-  readonly picardIterations: number;
+  /** Extra solves per step about the latest iterate: Newton with the linearised flux, else Picard (ν(Σ_new) lagged). */
+  readonly newtonIterations: number;
   readonly stepChange: number;
   /** Newton-linearised implicit flux (flux-linearization.ts) instead of lagged ν. */
   readonly linearizeFlux?: boolean;
   /**
-   * With the linearised flux and no Picard iterations: after the step, ν at the new Σ gives the step's nonlinear
+   * With the linearised flux and no Newton iterations: after the step, ν at the new Σ gives the step's nonlinear
    * residual (`linearizationResidual`); where it exceeds what the change control would redo (REDO_FACTOR ×
    * stepChange, relative to the same Σ scale), the linearisation is replaced by chords (`secantUpdate`) and the
    * step solved again, up to this many times, and then redone at half the step if still short. Costs one more
@@ -150,11 +151,11 @@ export function evolveDisk(setup: EvolveSetup, observer: EvolveObserver = {}): E
   const lin = setup.linearizeFlux === true
     ? {
       sigma: new Float64Array(n), nu: new Float64Array(n), temperature: new Float64Array(n), nuImplicit: new Float64Array(n), offset: new Float64Array(n),
-      // The linearisation about a later iterate (picard_iterations) lives apart: a redone try restarts from the first.
+      // The linearisation about a later iterate (newtonIterations) lives apart: a redone try restarts from the first.
       iterate: new Float64Array(n), iterateNuImplicit: new Float64Array(n), iterateOffset: new Float64Array(n),
     }
     : null;
-  const secantIterations = lin !== null && setup.picardIterations === 0 ? (setup.secantIterations ?? 0) : 0;
+  const secantIterations = lin !== null && setup.newtonIterations === 0 ? (setup.secantIterations ?? 0) : 0;
   const secant = secantIterations > 0
     ? { nuNew: new Float64Array(n), temperature: new Float64Array(n), residual: new Float64Array(n), nuImplicit: new Float64Array(n), offset: new Float64Array(n) }
     : null;
@@ -200,7 +201,7 @@ export function evolveDisk(setup: EvolveSetup, observer: EvolveObserver = {}): E
   const cellState = (i: number): string =>
     `R = ${(grid.centers[i] / AU_CGS).toPrecision(3)} AU (Σ = ${sigma[i].toPrecision(3)} g cm^-2, Σ_a/Σ = ` +
     `${sigma[i] > 0 ? (fields.sigmaActive[i] / sigma[i]).toPrecision(2) : '-'}, T = ${fields.temperature[i].toPrecision(3)} K)`;
-  const boundAt = (): string => (boundCell < 0 ? '' : `; the step control was bound at ${cellState(boundCell)}`);
+  const boundAt = (): string => (boundCell < 0 ? '' : `; the step size was held back by the cell at ${cellState(boundCell)}`);
 
   let dt = setup.initialDt;
   let dtTaken = 0;
@@ -212,7 +213,7 @@ export function evolveDisk(setup: EvolveSetup, observer: EvolveObserver = {}): E
       return fail(
         'step_limit',
         `reached max_steps = ${setup.maxSteps} at t = ${(state.t / MYR_CGS).toPrecision(4)} Myr; ${boundCount[most]} of the steps ` +
-          `were bound at ${cellState(most)}`,
+          `were held back by the cell at ${cellState(most)}`,
       );
     }
     const t = state.t;
@@ -314,7 +315,7 @@ export function evolveDisk(setup: EvolveSetup, observer: EvolveObserver = {}): E
           flows = viscousStep({ ...input, nuImplicit: secant.nuImplicit, implicitOffset: secant.offset }, ws, sigmaNew);
         }
       }
-      for (let k = 0; k < setup.picardIterations; k++) {
+      for (let k = 0; k < setup.newtonIterations; k++) {
         tempScratch.set(fields.temperature);
         computeTransportCoefficients(grid, sigmaNew, omega, physics, { nu: nuNew, temperature: tempScratch }, t + dtTry, dtTry);
         if (lin === null) {
