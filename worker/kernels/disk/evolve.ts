@@ -41,7 +41,7 @@ import {
 import type { TransportPhysics } from './transport-coefficients.js';
 import { computeTransportCoefficients } from './transport-coefficients.js';
 import type { EdgeCondition } from './viscous-transport.js';
-import { linearizationResidual, linearizeFlux, perturbSigma, probeViscosity, secantUpdate } from './flux-linearization.js';
+import { linearizationResidual, linearizeAbout, probeViscosity, secantUpdate, type ProbeDisk } from './flux-linearization.js';
 import { makeTransportWorkspace, viscousStep } from './viscous-transport.js';
 import { advanceCavity, findInnerCavity, type InnerCavity } from './winds/inner-cavity.js';
 import { cavityCheckRadius, computeWindRates, fillSinkDt, makeWindWorkspace, windRemoval, type WindSetup } from './winds/wind-sink.js';
@@ -152,7 +152,7 @@ export function evolveDisk(setup: EvolveSetup, observer: EvolveObserver = {}): E
     ? {
       sigma: new Float64Array(n), nu: new Float64Array(n), temperature: new Float64Array(n), nuImplicit: new Float64Array(n), offset: new Float64Array(n),
       // The linearisation about a later iterate (newtonIterations) lives apart: a redone try restarts from the first.
-      iterate: new Float64Array(n), iterateNuImplicit: new Float64Array(n), iterateOffset: new Float64Array(n),
+      iterateNuImplicit: new Float64Array(n), iterateOffset: new Float64Array(n),
     }
     : null;
   const secantIterations = lin !== null && setup.newtonIterations === 0 ? (setup.secantIterations ?? 0) : 0;
@@ -203,6 +203,7 @@ export function evolveDisk(setup: EvolveSetup, observer: EvolveObserver = {}): E
     `${sigma[i] > 0 ? (fields.sigmaActive[i] / sigma[i]).toPrecision(2) : '-'}, T = ${fields.temperature[i].toPrecision(3)} K)`;
   const boundAt = (): string => (boundCell < 0 ? '' : `; the step size was held back by the cell at ${cellState(boundCell)}`);
 
+  const probeDisk: ProbeDisk = { grid, omega, physics };
   let dt = setup.initialDt;
   let dtTaken = 0;
   let next = 0;
@@ -245,9 +246,7 @@ export function evolveDisk(setup: EvolveSetup, observer: EvolveObserver = {}): E
       const edgeAt = (f: ((s: number) => number) | undefined): EdgeCondition =>
         f === undefined ? null : theta * f(t + dtTry) + (1 - theta) * f(t);
       if (lin !== null && retry === 0) {
-        perturbSigma(sigma, lin.sigma);
-        probeViscosity(grid, lin.sigma, omega, physics, fields.temperature, t, lin.nu, lin.temperature);
-        linearizeFlux(sigma, grid.sqrtCenters, fields.nu, lin.nu, lin.nuImplicit, lin.offset);
+        linearizeAbout(probeDisk, t, sigma, fields.nu, fields.temperature, lin, lin.nuImplicit, lin.offset);
       }
       // One record per try, its wind sink filled in after the predictor: a spread copy per try cost ~1.5 % of a model
       // in a profile, and viscousStep read two record shapes (it takes ~25 % less time with one).
@@ -324,10 +323,8 @@ export function evolveDisk(setup: EvolveSetup, observer: EvolveObserver = {}): E
         }
         // A Newton iteration: the flux re-linearised about the latest iterate (a plain re-solve with ν(Σ_new)
         // would drop the linearisation and, across a steep switch, oscillate between iterates).
-        lin.iterate.set(sigmaNew);
-        perturbSigma(lin.iterate, lin.sigma);
-        probeViscosity(grid, lin.sigma, omega, physics, tempScratch, t + dtTry, lin.nu, lin.temperature);
-        linearizeFlux(lin.iterate, grid.sqrtCenters, nuNew, lin.nu, lin.iterateNuImplicit, lin.iterateOffset);
+        // (The linearisation reads Σ_new before the solve below overwrites it.)
+        linearizeAbout(probeDisk, t + dtTry, sigmaNew, nuNew, tempScratch, lin, lin.iterateNuImplicit, lin.iterateOffset);
         flows = viscousStep({ ...input, nuImplicit: lin.iterateNuImplicit, implicitOffset: lin.iterateOffset }, ws, sigmaNew);
       }
       const removal = winds !== null && windWs !== null ? windRemoval(winds, grid, sigmaNew, windWs) : null;

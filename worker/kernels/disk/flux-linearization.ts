@@ -79,6 +79,39 @@ export function perturbSigma(sigma: Float64Array, out: Float64Array): void {
   for (let i = 0; i < sigma.length; i++) out[i] = sigma[i] * (1 + FLUX_PERTURBATION);
 }
 
+/** The disk a probe pass runs on: grid, Ω per cell and the transport physics. */
+export interface ProbeDisk {
+  readonly grid: DiskGrid;
+  readonly omega: Float64Array;
+  readonly physics: TransportPhysics;
+}
+
+/** Scratch arrays of `linearizeAbout` (Σ(1 + ε), ν there, the temperature of that pass). */
+export interface ProbeScratch {
+  readonly sigma: Float64Array;
+  readonly nu: Float64Array;
+  readonly temperature: Float64Array;
+}
+
+/**
+ * The linearisation of the flux about a state Σ with its ν (the start of a step, or a later iterate), T held at
+ * `heldTemperature`: the probe pass at Σ (1 + ε), then `linearizeFlux` into `nuImplicit` and `offset`.
+ */
+export function linearizeAbout(
+  disk: ProbeDisk,
+  time: number,
+  sigma: Float64Array,
+  nu: Float64Array,
+  heldTemperature: Float64Array,
+  scratch: ProbeScratch,
+  nuImplicit: Float64Array,
+  offset: Float64Array,
+): void {
+  perturbSigma(sigma, scratch.sigma);
+  probeViscosity(disk.grid, scratch.sigma, disk.omega, disk.physics, heldTemperature, time, scratch.nu, scratch.temperature);
+  linearizeFlux(sigma, disk.grid.sqrtCenters, nu, scratch.nu, nuImplicit, offset);
+}
+
 /**
  * What the linearised implicit flux left undone, as a change of Σ per cell: with X_i the flux variable νΣ√R of
  * viscous-transport.ts, the step used X_lin,i = ν_imp,i Σ'_i √R_i + offset_i where backward Euler wants
